@@ -1,0 +1,739 @@
+/**
+ * A least-squares fit: the factorization computed once, then asked questions.
+ *
+ *     minimize  Σ_i w_i (y_i − x_iᵀ b)²      over the rows i that are used
+ *
+ * Pipeline (all exact except the factorization itself, which refinement then corrects):
+ * 1. Rows with a missing y, x or weight are skipped; zero-weight rows are kept aside.
+ * 2. Each x column and y are divided by a power of two (exact) so nothing overflows; the
+ *    design (intercept, x columns or dd powers) is multiplied by √w in double-double.
+ * 3. Each design column is scaled by a power of two so its norm lies in [0.5, 1) (exact
+ *    equilibration), and the high parts are factored by HouseholderQR, which makes the one
+ *    rank decision (kept / non-identifiable columns, in the user's order).
+ * 4. Coefficients, covariance columns and dependency relations are refined on the augmented
+ *    system with double-double residuals against the exact (dd) design.
+ *
+ * Scaled quantities carry a tilde in comments: X̃ = √W·X·2^cs (per column), ỹ = √W·y·2^ys.
+ * True values follow exactly: b_j = b̃_j·2^(cs_j − ys), (XᵀWX)⁻¹_ij = C̃_ij·2^(cs_i + cs_j),
+ * σ = σ̃·2^(−ys).
+ */
+import { LsqError, notAvailable, type NotAvailable, type Quantity } from "./errors";
+import {
+  RowStatus,
+  classifyRows,
+  columnExponents,
+  designPreExp,
+  fillDesignColumn,
+  sqrtWeights,
+  validateSpec,
+  type ModelShape,
+  type ModelSpec,
+} from "./design";
+import { HouseholderQR, nrm2 } from "./qr";
+import { refineAugmented, residualUpdate, type DDMatrix } from "./refine";
+import { exponentOf, scaleByPow2 } from "./scale";
+import { twoProd, twoSum, type DD } from "./dd";
+import { fUpper, tQuantile, tTwoSided } from "./distributions";
+import { conditionNumber } from "./condition";
+
+/** How a non-identifiable design column depends on the kept columns before it. */
+export interface Dependency {
+  /** The non-identifiable design column. */
+  readonly column: number;
+  /** Kept design columns it is expressed in (all kept columns before it). */
+  readonly on: Int32Array;
+  /** Coefficients in the user's units: column ≈ Σ coef[t] · column on[t]. */
+  readonly coef: Float64Array;
+  /** True when the column is zero in every used row (then coef is empty). */
+  readonly zero: boolean;
+  /** Relative size of the part of the column not explained by the relation (0 = exact). */
+  readonly remainder: number;
+}
+
+/** Summary statistics; each is a finite number or a reason why it is not available. */
+export interface FitStatistics {
+  observationsUsed: number;
+  observationsSkipped: number;
+  zeroWeightRows: number;
+  parameters: number;
+  rank: number;
+  residualDf: number;
+  rss: Quantity;
+  sigma: Quantity;
+  rSquared: Quantity;
+  adjRSquared: Quantity;
+  fStatistic: Quantity;
+  fPValue: Quantity;
+  conditionNumber: Quantity;
+  logLikelihood: Quantity;
+  aic: Quantity;
+  bic: Quantity;
+  /** True when R² is the centred one (model with intercept). */
+  centred: boolean;
+}
+
+/** One row of the parameter table. */
+export interface ParameterRow {
+  estimate: Quantity;
+  standardError: Quantity;
+  t: Quantity;
+  p: Quantity;
+  lower: Quantity;
+  upper: Quantity;
+}
+
+/** Per-row influence measures (rows that are not used are NotAvailable). */
+export interface InfluenceRow {
+  leverage: Quantity;
+  standardized: Quantity;
+  studentized: Quantity;
+  cooks: Quantity;
+}
+
+export interface Prediction {
+  value: Quantity;
+  /** Standard error of the mean response at the row. */
+  seMean: Quantity;
+  /** Standard error for a new observation (weight 1) at the row. */
+  seNew: Quantity;
+}
+
+const NA_SIGMA_DF0 = "the fit has no residual degrees of freedom (as many parameters as used rows), so the scatter of the data cannot be estimated";
+
+export class LeastSquaresFit {
+  readonly spec: ModelSpec;
+  readonly shape: ModelShape;
+  /** Status of every input row (RowStatus). */
+  readonly status: Uint8Array;
+  /** For rows skipped because of x: the x column that was missing. */
+  readonly missingCol: Int32Array;
+  /** Input rows used in the fit (complete, weight > 0). */
+  readonly used: Int32Array;
+  /** Number of used rows. */
+  readonly n: number;
+  /** Design column scale exponents: stored = true · √w · 2^cs[j]. */
+  readonly cs: Int32Array;
+  /** Response scale exponent: ỹ = y · √w · 2^ys. */
+  readonly ys: number;
+  /** The exact scaled weighted design (n × p, dd). */
+  readonly design: DDMatrix;
+  readonly qr: HouseholderQR;
+  /** Refined scaled coefficients for the kept columns (length rank). */
+  readonly coefScaled: Float64Array;
+  /** Weighted scaled residuals r̃ of the used rows. */
+  readonly residScaled: Float64Array;
+  /** Σ r̃², scaled. */
+  readonly rssScaled: number;
+  /** Refinement steps and convergence for the coefficients. */
+  readonly refineSteps: number;
+  readonly refineConverged: boolean;
+  private readonly preExp: Int32Array;
+  private readonly sw: { hi: Float64Array; lo: Float64Array } | null;
+  private readonly yHi: Float64Array;
+  private readonly yLo: Float64Array | null;
+  private covCache: Float64Array | null = null;
+  private covConverged = true;
+  private depCache: Dependency[] | null = null;
+  private levCache: Float64Array | null = null;
+  private condCache: { value: number; weakest: Float64Array } | null = null;
+  private outCache: { fitted: Float64Array; resid: Float64Array } | null = null;
+
+  constructor(spec: ModelSpec) {
+    this.spec = spec;
+    const shape = validateSpec(spec);
+    this.shape = shape;
+    const { status, used, missingCol } = classifyRows(spec, shape);
+    this.status = status;
+    this.missingCol = missingCol;
+    this.used = used;
+    const n = used.length;
+    this.n = n;
+    const p = shape.p;
+    this.preExp = columnExponents(spec.x, shape.m, shape.k);
+    this.sw = sqrtWeights(spec.weights, used);
+    const sw = this.sw;
+
+    // Design (weighted, pre-scaled), then exact equilibration of each column.
+    const hi = new Float64Array(n * p);
+    const lo = new Float64Array(n * p);
+    let anyLo = false;
+    const cs = new Int32Array(p);
+    for (let j = 0; j < p; j++) {
+      if (fillDesignColumn(spec, shape, j, used, sw?.hi ?? null, sw?.lo ?? null, this.preExp, hi, lo, j * n)) anyLo = true;
+      const e2 = -exponentOf(nrm2(hi, j * n, n));
+      for (let t = j * n, end = t + n; t < end; t++) {
+        hi[t] = scaleByPow2(hi[t]!, e2);
+        lo[t] = scaleByPow2(lo[t]!, e2);
+      }
+      cs[j] = e2 - designPreExp(shape, spec.intercept, this.preExp, j);
+      checkFinite(hi, lo, j * n, n, j, spec, shape);
+    }
+    this.cs = cs;
+    this.design = { m: n, hi, lo: anyLo ? lo : null };
+
+    // Response ỹ = y·√w·2^ys in dd.
+    let ymax = 0;
+    for (let t = 0; t < n; t++) ymax = Math.max(ymax, Math.abs(spec.y[used[t]!]!));
+    this.ys = -exponentOf(ymax);
+    const yHi = new Float64Array(n);
+    const yLo = sw ? new Float64Array(n) : null;
+    const tmp: DD = { hi: 0, lo: 0 };
+    for (let t = 0; t < n; t++) {
+      const v = scaleByPow2(spec.y[used[t]!]!, this.ys);
+      if (sw) {
+        twoProd(v, sw.hi[t]!, tmp);
+        yHi[t] = tmp.hi;
+        yLo![t] = tmp.lo + v * sw.lo[t]!;
+      } else yHi[t] = v;
+    }
+    this.yHi = yHi;
+    this.yLo = yLo;
+
+    this.qr = new HouseholderQR(Float64Array.from(hi), n, p, spec.tolerance);
+    const rank = this.qr.rank;
+    const sol = refineAugmented(this.qr, this.design, rank, 1, yHi, yLo, null);
+    this.coefScaled = sol.x;
+    this.refineSteps = sol.steps[0] ?? 0;
+    this.refineConverged = sol.converged[0] ?? true;
+
+    // Final residual r̃ = ỹ − X̃ b̃ in compensated arithmetic.
+    const s = Float64Array.from(yHi);
+    const comp = yLo ? Float64Array.from(yLo) : new Float64Array(n);
+    for (let k = 0; k < rank; k++) residualUpdate(this.design, this.qr.kept[k]!, -this.coefScaled[k]!, s, comp, n);
+    const r = new Float64Array(n);
+    for (let t = 0; t < n; t++) r[t] = s[t]! + comp[t]!;
+    this.residScaled = r;
+    this.rssScaled = sumSquares(r, 0, n);
+  }
+
+  // ------------------------------------------------------------------ structure
+
+  get rank(): number {
+    return this.qr.rank;
+  }
+
+  /** Number of parameters p (design columns). */
+  get parameters(): number {
+    return this.shape.p;
+  }
+
+  /** Residual degrees of freedom: used rows − rank (never negative). */
+  get residualDf(): number {
+    return Math.max(0, this.n - this.rank);
+  }
+
+  /** For each design column: its position among the kept columns, or −1 if non-identifiable. */
+  keptIndex(): Int32Array {
+    const idx = new Int32Array(this.shape.p).fill(-1);
+    this.qr.kept.forEach((c, k) => (idx[c] = k));
+    return idx;
+  }
+
+  /** Number of skipped rows (missing values), and of rows with zero weight. */
+  rowCounts(): { skipped: number; zeroWeight: number } {
+    let skipped = 0;
+    let zeroWeight = 0;
+    for (const s of this.status) {
+      if (s === RowStatus.ZeroWeight) zeroWeight++;
+      else if (s !== RowStatus.Used) skipped++;
+    }
+    return { skipped, zeroWeight };
+  }
+
+  // ------------------------------------------------------------------ coefficients
+
+  /** Coefficients in the user's units, one per design column; NaN marks non-identifiable. */
+  coefficients(): Float64Array {
+    const b = new Float64Array(this.shape.p).fill(NaN);
+    const { kept } = this.qr;
+    for (let k = 0; k < kept.length; k++) {
+      const j = kept[k]!;
+      b[j] = scaleByPow2(this.coefScaled[k]!, this.cs[j]! - this.ys);
+    }
+    return b;
+  }
+
+  /** Dependency relation of every non-identifiable column on the kept columns before it. */
+  dependencies(): Dependency[] {
+    if (this.depCache) return this.depCache;
+    const out: Dependency[] = [];
+    const { qr, design, cs } = this;
+    const n = this.n;
+    for (const j of qr.dropped) {
+      const nk = qr.keptBefore[j]!;
+      const colNorm = nrm2(design.hi, j * n, n);
+      if (colNorm === 0) {
+        out.push({ column: j, on: new Int32Array(0), coef: new Float64Array(0), zero: true, remainder: 0 });
+        continue;
+      }
+      const bHi = design.hi.subarray(j * n, (j + 1) * n);
+      const bLo = design.lo ? design.lo.subarray(j * n, (j + 1) * n) : null;
+      const sol = nk > 0 ? refineAugmented(qr, design, nk, 1, bHi, bLo, null) : null;
+      const on = qr.kept.slice(0, nk);
+      const coef = new Float64Array(nk);
+      for (let k = 0; k < nk; k++) coef[k] = scaleByPow2(sol!.x[k]!, cs[on[k]!]! - cs[j]!);
+      const rem = sol ? nrm2(sol.r, 0, n) / colNorm : 1;
+      out.push({ column: j, on, coef, zero: false, remainder: rem });
+    }
+    this.depCache = out;
+    return out;
+  }
+
+  // ------------------------------------------------------------------ fitted values and residuals
+
+  /**
+   * Fitted values and residuals (unweighted, user units) for every input row whose x and y
+   * are complete, including zero-weight rows; NaN for skipped rows.
+   */
+  fittedAndResiduals(): { fitted: Float64Array; resid: Float64Array } {
+    if (this.outCache) return this.outCache;
+    const m = this.shape.m;
+    const rows: number[] = [];
+    for (let i = 0; i < m; i++) if (this.status[i] === RowStatus.Used || this.status[i] === RowStatus.ZeroWeight) rows.push(i);
+    const idx = Int32Array.from(rows);
+    const nc = idx.length;
+    const s = new Float64Array(nc);
+    const comp = new Float64Array(nc);
+    const colHi = new Float64Array(nc);
+    const colLo = new Float64Array(nc);
+    const col: DDMatrix = { m: nc, hi: colHi, lo: colLo };
+    const { kept } = this.qr;
+    for (let k = 0; k < kept.length; k++) {
+      const j = kept[k]!;
+      fillDesignColumn(this.spec, this.shape, j, idx, null, null, this.preExp, colHi, colLo, 0);
+      const e = this.cs[j]! + designPreExp(this.shape, this.spec.intercept, this.preExp, j);
+      // colHi holds true·2^(−pre); bring it to true·2^cs.
+      for (let t = 0; t < nc; t++) {
+        colHi[t] = scaleByPow2(colHi[t]!, e);
+        colLo[t] = scaleByPow2(colLo[t]!, e);
+      }
+      residualUpdate(col, 0, this.coefScaled[k]!, s, comp, nc);
+    }
+    const fitted = new Float64Array(m).fill(NaN);
+    const resid = new Float64Array(m).fill(NaN);
+    const tmp: DD = { hi: 0, lo: 0 };
+    for (let t = 0; t < nc; t++) {
+      const i = idx[t]!;
+      fitted[i] = scaleByPow2(s[t]! + comp[t]!, -this.ys);
+      twoSum(scaleByPow2(this.spec.y[i]!, this.ys), -s[t]!, tmp);
+      resid[i] = scaleByPow2(tmp.hi + (tmp.lo - comp[t]!), -this.ys);
+    }
+    this.outCache = { fitted, resid };
+    return this.outCache;
+  }
+
+  // ------------------------------------------------------------------ covariance
+
+  /**
+   * Refined unscaled covariance of the scaled kept design, C̃ = (X̃_Kᵀ X̃_K)⁻¹, rank × rank
+   * column-major. Each column solves the augmented system with right-hand side [0; e_k].
+   */
+  scaledCovariance(): Float64Array {
+    if (this.covCache) return this.covCache;
+    const r = this.rank;
+    const c = new Float64Array(r * r);
+    for (let k = 0; k < r; k++) c[k * r + k] = 1;
+    const sol = refineAugmented(this.qr, this.design, r, r, null, null, c);
+    const out = sol.x;
+    for (let t = 0; t < out.length; t++) out[t] = -out[t]!;
+    // Symmetrize (the two triangles agree to rounding after refinement).
+    for (let i = 0; i < r; i++)
+      for (let j = i + 1; j < r; j++) {
+        const v = 0.5 * (out[i * r + j]! + out[j * r + i]!);
+        out[i * r + j] = v;
+        out[j * r + i] = v;
+      }
+    this.covConverged = sol.converged.every(Boolean);
+    this.covCache = out;
+    return out;
+  }
+
+  /** Whether the covariance refinement met its stopping test for every column. */
+  covarianceConverged(): boolean {
+    this.scaledCovariance();
+    return this.covConverged;
+  }
+
+  /** σ̃ (scaled residual standard error) or why it is not available. */
+  private sigmaScaled(): Quantity {
+    const df = this.residualDf;
+    if (df === 0) return notAvailable(NA_SIGMA_DF0);
+    return Math.sqrt(this.rssScaled / df);
+  }
+
+  /**
+   * Covariance of the estimates, p × p row-major in the user's units: σ²·(XᵀWX)⁻¹ over the kept
+   * columns; NotAvailable for rows/columns of non-identifiable parameters or when σ is not defined.
+   */
+  covariance(): Quantity[][] {
+    const p = this.shape.p;
+    const sig = this.sigmaScaled();
+    const idx = this.keptIndex();
+    const r = this.rank;
+    const C = this.scaledCovariance();
+    const out: Quantity[][] = [];
+    for (let i = 0; i < p; i++) {
+      const row: Quantity[] = [];
+      for (let j = 0; j < p; j++) {
+        const ki = idx[i]!;
+        const kj = idx[j]!;
+        if (ki < 0 || kj < 0) row.push(notAvailable(nonIdentMsg(ki < 0 ? i : j)));
+        else if (typeof sig !== "number") row.push(sig);
+        else row.push(finiteOr(scaleByPow2(sig * sig * C[kj * r + ki]!, this.cs[i]! + this.cs[j]! - 2 * this.ys), "the covariance is too large or too small to represent"));
+      }
+      out.push(row);
+    }
+    return out;
+  }
+
+  // ------------------------------------------------------------------ statistics
+
+  statistics(): FitStatistics {
+    const n = this.n;
+    const rank = this.rank;
+    const df = this.residualDf;
+    const { skipped, zeroWeight } = this.rowCounts();
+    const centred = this.spec.intercept;
+    const ys = this.ys;
+    const exact = this.rssScaled === 0;
+    const sig = this.sigmaScaled();
+    const rss = n === 0 ? notAvailable("no rows could be used") : finiteOr(scaleByPow2(this.rssScaled, -2 * ys), "the residual sum of squares is too large to represent");
+    const sigma = typeof sig === "number" ? finiteOr(scaleByPow2(sig, -ys), "too large to represent") : sig;
+
+    const tss = this.totalSumOfSquaresScaled();
+    // Regression sum of squares TSS − RSS (≥ 0 up to rounding).
+    const ssrScaled = Math.max(0, tss - this.rssScaled);
+    let rSquared: Quantity;
+    let adj: Quantity;
+    if (n === 0) rSquared = notAvailable("no rows could be used");
+    else if (tss === 0) rSquared = notAvailable(centred ? "y does not vary, so there is nothing for the model to explain" : "every y value is zero");
+    else rSquared = 1 - this.rssScaled / tss;
+    const nc = centred ? n - 1 : n;
+    if (typeof rSquared !== "number") adj = rSquared;
+    else if (df === 0) adj = notAvailable(NA_SIGMA_DF0);
+    else adj = 1 - ((1 - rSquared) * nc) / df;
+
+    const dfReg = rank - (centred ? 1 : 0);
+    let F: Quantity;
+    let Fp: Quantity;
+    if (dfReg <= 0) F = notAvailable("the model has no terms to test beyond the intercept");
+    else if (df === 0) F = notAvailable(NA_SIGMA_DF0);
+    else if (exact) F = notAvailable("the model fits the data exactly (all residuals are zero), so the F statistic is unbounded");
+    else F = finiteOr(ssrScaled / dfReg / (this.rssScaled / df), "the F statistic is too large to represent");
+    if (typeof F === "number") Fp = fUpper(F, dfReg, df);
+    else Fp = F;
+
+    // Gaussian log-likelihood with the ML variance RSS/n and variances σ²/w_i.
+    let logL: Quantity;
+    if (n === 0) logL = notAvailable("no rows could be used");
+    else if (exact) logL = notAvailable("the model fits the data exactly, so the likelihood is unbounded");
+    else {
+      let sumLogW = 0;
+      const w = this.spec.weights;
+      if (w) for (const i of this.used) sumLogW += Math.log(w[i]!);
+      const lnRss = Math.log(this.rssScaled) - 2 * ys * Math.LN2;
+      logL = -0.5 * n * (Math.log(2 * Math.PI) + lnRss - Math.log(n) + 1) + 0.5 * sumLogW;
+    }
+    const kParams = rank + 1; // identifiable coefficients plus the error variance
+    const aic: Quantity = typeof logL === "number" ? -2 * logL + 2 * kParams : logL;
+    const bic: Quantity = typeof logL === "number" ? -2 * logL + Math.log(n) * kParams : logL;
+
+    let cond: Quantity;
+    if (rank === 0) cond = notAvailable("no column could be estimated");
+    else cond = this.condition().value;
+
+    return {
+      observationsUsed: n,
+      observationsSkipped: skipped,
+      zeroWeightRows: zeroWeight,
+      parameters: this.shape.p,
+      rank,
+      residualDf: df,
+      rss,
+      sigma,
+      rSquared,
+      adjRSquared: adj,
+      fStatistic: F,
+      fPValue: Fp,
+      conditionNumber: cond,
+      logLikelihood: logL,
+      aic,
+      bic,
+      centred,
+    };
+  }
+
+  /**
+   * Total sum of squares, scaled by 2^(2ys): Σ w (y − ȳ_w)² with an intercept (centred),
+   * Σ w y² without (uncentred), accumulated in compensated arithmetic from the exact ỹ.
+   * R² uses 1 − RSS/TSS rather than the sum of squares of the fitted values: RSS is
+   * insensitive to first order to the rounding of the coefficients, the fitted values are not.
+   */
+  private totalSumOfSquaresScaled(): number {
+    const n = this.n;
+    if (n === 0) return 0;
+    const { yHi, yLo, sw } = this;
+    const dev = new Float64Array(n);
+    if (!this.spec.intercept) {
+      for (let t = 0; t < n; t++) dev[t] = yHi[t]! + (yLo ? yLo[t]! : 0);
+      return sumSquares(dev, 0, n);
+    }
+    // ȳ_w (scaled) = Σ √w·ỹ / Σ w; deviations √w·(y − ȳ_w) = ỹ − √w·ȳ_w.
+    let num = 0;
+    let numC = 0;
+    let den = 0;
+    let denC = 0;
+    const tmp: DD = { hi: 0, lo: 0 };
+    for (let t = 0; t < n; t++) {
+      const s = sw ? sw.hi[t]! : 1;
+      twoProd(s, yHi[t]!, tmp);
+      const e = tmp.lo + s * (yLo ? yLo[t]! : 0) + (sw ? sw.lo[t]! * yHi[t]! : 0);
+      let sn = num + tmp.hi;
+      let bb = sn - num;
+      numC += num - (sn - bb) + (tmp.hi - bb) + e;
+      num = sn;
+      const w = sw ? this.spec.weights![this.used[t]!]! : 1;
+      sn = den + w;
+      bb = sn - den;
+      denC += den - (sn - bb) + (w - bb);
+      den = sn;
+    }
+    const ybar = (num + numC) / (den + denC);
+    for (let t = 0; t < n; t++) {
+      const s = sw ? sw.hi[t]! : 1;
+      twoProd(s, ybar, tmp);
+      dev[t] = yHi[t]! - tmp.hi + ((yLo ? yLo[t]! : 0) - tmp.lo - (sw ? sw.lo[t]! * ybar : 0));
+    }
+    return sumSquares(dev, 0, n);
+  }
+
+  /** Condition number (2-norm) of the kept design with columns scaled to unit length, and the weakest direction. */
+  condition(): { value: number; weakest: Float64Array } {
+    if (!this.condCache) this.condCache = conditionNumber(this.qr);
+    return this.condCache;
+  }
+
+  /** Parameter table at a confidence level in (0, 1). */
+  parameterTable(level: number): ParameterRow[] {
+    if (!(level > 0 && level < 1)) throw new LsqError("range", "the confidence level must be between 0 and 1, e.g. 0.95");
+    const p = this.shape.p;
+    const b = this.coefficients();
+    const idx = this.keptIndex();
+    const sig = this.sigmaScaled();
+    const df = this.residualDf;
+    const r = this.rank;
+    const C = r > 0 ? this.scaledCovariance() : new Float64Array(0);
+    const q = df > 0 ? tQuantile(0.5 + level / 2, df) : NaN;
+    const rows: ParameterRow[] = [];
+    for (let j = 0; j < p; j++) {
+      const k = idx[j]!;
+      if (k < 0) {
+        const na = notAvailable(nonIdentMsg(j));
+        rows.push({ estimate: na, standardError: na, t: na, p: na, lower: na, upper: na });
+        continue;
+      }
+      const est = finiteOr(b[j]!, "the estimate is too large to represent");
+      if (typeof sig !== "number") {
+        rows.push({ estimate: est, standardError: sig, t: sig, p: sig, lower: sig, upper: sig });
+        continue;
+      }
+      const se = finiteOr(scaleByPow2(sig * Math.sqrt(C[k * r + k]!), this.cs[j]! - this.ys), "the standard error is too large to represent");
+      let t: Quantity;
+      let pv: Quantity;
+      if (typeof se !== "number" || typeof est !== "number") t = pv = notAvailable("the estimate or its standard error is not available");
+      else if (se === 0) t = pv = notAvailable("the standard error is zero (the model fits exactly), so the t statistic is unbounded");
+      else {
+        t = finiteOr(est / se, "the t statistic is too large to represent");
+        pv = typeof t === "number" ? tTwoSided(t, df) : t;
+      }
+      let lower: Quantity = notAvailable("the estimate or its standard error is not available");
+      let upper: Quantity = lower;
+      if (typeof se === "number" && typeof est === "number") {
+        lower = finiteOr(est - q * se, "the limit is too large to represent");
+        upper = finiteOr(est + q * se, "the limit is too large to represent");
+      }
+      rows.push({ estimate: est, standardError: se, t, p: pv, lower, upper });
+    }
+    return rows;
+  }
+
+  // ------------------------------------------------------------------ influence
+
+  /** Leverage h_i of each used row (diagonal of the weighted hat matrix), length n. */
+  leverageUsed(): Float64Array {
+    if (this.levCache) return this.levCache;
+    const n = this.n;
+    const r = this.rank;
+    const Q = this.qr.thinQ(r);
+    const h = new Float64Array(n);
+    for (let k = 0; k < r; k++) {
+      const o = k * n;
+      for (let t = 0; t < n; t++) h[t]! += Q[o + t]! * Q[o + t]!;
+    }
+    this.levCache = h;
+    return h;
+  }
+
+  /** Influence measures for every input row. */
+  influence(): InfluenceRow[] {
+    const m = this.shape.m;
+    const h = this.leverageUsed();
+    const sig = this.sigmaScaled();
+    const df = this.residualDf;
+    const r = this.rank;
+    const out: InfluenceRow[] = new Array<InfluenceRow>(m);
+    for (let i = 0; i < m; i++) {
+      const st = this.status[i]!;
+      if (st === RowStatus.ZeroWeight) {
+        const na = notAvailable("this row has zero weight, so it does not influence the fit");
+        out[i] = { leverage: 0, standardized: na, studentized: na, cooks: na };
+      } else if (st !== RowStatus.Used) {
+        const na = notAvailable("this row was skipped (missing value)");
+        out[i] = { leverage: na, standardized: na, studentized: na, cooks: na };
+      }
+    }
+    for (let t = 0; t < this.n; t++) {
+      const i = this.used[t]!;
+      const hi = Math.min(1, h[t]!);
+      const lev: Quantity = hi;
+      if (typeof sig !== "number") {
+        out[i] = { leverage: lev, standardized: sig, studentized: sig, cooks: sig };
+        continue;
+      }
+      const oneMinus = 1 - hi;
+      if (oneMinus <= 1e-12) {
+        const na = notAvailable("this row alone determines part of the fit (leverage 1), so its residual is always zero");
+        out[i] = { leverage: lev, standardized: na, studentized: na, cooks: na };
+        continue;
+      }
+      if (sig === 0) {
+        const na = notAvailable("the model fits exactly (all residuals are zero)");
+        out[i] = { leverage: lev, standardized: na, studentized: na, cooks: na };
+        continue;
+      }
+      const s = this.residScaled[t]! / (sig * Math.sqrt(oneMinus));
+      const cooks = (s * s * hi) / (r * oneMinus);
+      let stud: Quantity;
+      if (df <= 1) stud = notAvailable("deleting a row would leave no residual degrees of freedom");
+      else {
+        const d = df - s * s;
+        stud = d > 0 ? s * Math.sqrt((df - 1) / d) : notAvailable("this row's residual accounts for all of the scatter, so its deleted residual is unbounded");
+      }
+      out[i] = { leverage: lev, standardized: s, studentized: stud, cooks };
+    }
+    return out;
+  }
+
+  // ------------------------------------------------------------------ prediction
+
+  /**
+   * Predictions at new rows of x (q × k column-major, user units, unweighted).
+   * A new row that breaks a dependency found in the data cannot be predicted.
+   */
+  predict(newx: Float64Array, q: number): Prediction[] {
+    const { k, p, degree } = this.shape;
+    if (newx.length !== q * k) throw new LsqError("shape", `newx must have ${k} column${k === 1 ? "" : "s"}, like x`);
+    const b = this.coefficients();
+    const deps = this.dependencies();
+    const r = this.rank;
+    const sig = this.sigmaScaled();
+    const out: Prediction[] = [];
+    const row = new Float64Array(p);
+    const z = new Float64Array(r);
+    for (let t = 0; t < q; t++) {
+      let missing = -1;
+      for (let c = 0; c < k; c++) if (!Number.isFinite(newx[c * q + t]!)) missing = c;
+      if (missing >= 0) {
+        const na = notAvailable(`column ${missing + 1} of this new row is empty or not a number`);
+        out.push({ value: na, seMean: na, seNew: na });
+        continue;
+      }
+      let j = 0;
+      if (this.spec.intercept) row[j++] = 1;
+      if (degree >= 2) {
+        let v = 1;
+        for (let e = 1; e <= degree; e++) row[j++] = v *= newx[t]!;
+      } else for (let c = 0; c < k; c++) row[j++] = newx[c * q + t]!;
+      // Does the row obey every dependency of the data?
+      let broken: Dependency | null = null;
+      for (const d of deps) {
+        let s = row[d.column]!;
+        let mag = Math.abs(s);
+        for (let u = 0; u < d.on.length; u++) {
+          const v = d.coef[u]! * row[d.on[u]!]!;
+          s -= v;
+          mag += Math.abs(v);
+        }
+        if (Math.abs(s) > 1.5e-8 * mag) broken = d;
+      }
+      if (broken) {
+        const na = notAvailable(`this new row does not follow the dependency between columns found in the data (design column ${broken.column + 1}), so its prediction cannot be estimated`);
+        out.push({ value: na, seMean: na, seNew: na });
+        continue;
+      }
+      let val = 0;
+      for (let kk = 0; kk < r; kk++) {
+        const jj = this.qr.kept[kk]!;
+        val += row[jj]! * b[jj]!;
+        z[kk] = scaleByPow2(row[jj]!, this.cs[jj]!);
+      }
+      const value = finiteOr(val, "the prediction is too large to represent");
+      if (typeof sig !== "number") {
+        out.push({ value, seMean: sig, seNew: sig });
+        continue;
+      }
+      this.qr.solveRt(r, z);
+      let h = 0;
+      for (let kk = 0; kk < r; kk++) h += z[kk]! * z[kk]!;
+      const sg = scaleByPow2(sig, -this.ys);
+      out.push({
+        value,
+        seMean: finiteOr(sg * Math.sqrt(h), "too large to represent"),
+        seNew: finiteOr(sg * Math.sqrt(1 + h), "too large to represent"),
+      });
+    }
+    return out;
+  }
+
+  /** Quantile of t with the residual degrees of freedom, for intervals at `level`. */
+  tCritical(level: number): Quantity {
+    if (!(level > 0 && level < 1)) throw new LsqError("range", "the confidence level must be between 0 and 1, e.g. 0.95");
+    if (this.residualDf === 0) return notAvailable(NA_SIGMA_DF0);
+    return tQuantile(0.5 + level / 2, this.residualDf);
+  }
+}
+
+function nonIdentMsg(j: number): string {
+  return `design column ${j + 1} is not identifiable (it is a combination of earlier columns)`;
+}
+
+function finiteOr(v: number, reason: string): Quantity {
+  return Number.isFinite(v) ? v : notAvailable(reason);
+}
+
+/** Σ v² with compensated summation of exact squares. */
+export function sumSquares(v: Float64Array, off: number, n: number): number {
+  let s = 0;
+  let c = 0;
+  const tmp: DD = { hi: 0, lo: 0 };
+  for (let i = off; i < off + n; i++) {
+    const x = v[i]!;
+    twoProd(x, x, tmp);
+    const sn = s + tmp.hi;
+    const bb = sn - s;
+    c += s - (sn - bb) + (tmp.hi - bb) + tmp.lo;
+    s = sn;
+  }
+  return s + c;
+}
+
+function checkFinite(hi: Float64Array, lo: Float64Array, off: number, n: number, j: number, spec: ModelSpec, shape: ModelShape): void {
+  for (let t = off; t < off + n; t++) {
+    if (!Number.isFinite(hi[t]!) || !Number.isFinite(lo[t]!)) {
+      const what = shape.degree >= 2 ? `the power ${j + (spec.intercept ? 0 : 1)} of x` : `column ${j + (spec.intercept ? 0 : 1)} of x`;
+      throw new LsqError("range", `${what} spans too wide a range of magnitudes to represent; rescale x (for example, change units)`);
+    }
+  }
+}
+
+export type { NotAvailable };

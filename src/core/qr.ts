@@ -1,0 +1,212 @@
+/**
+ * Householder QR with an ordered rank decision ("keep or flag, in the user's order").
+ *
+ *     A(:, kept) = Q · R,   Q = H_0 · H_1 ⋯ H_{r-1},   H_k = I − τ_k v_k v_kᵀ
+ *
+ * A is m×p, column-major, already equilibrated by the caller. Columns are visited left to
+ * right. Column j is first reduced by the reflectors of the columns kept before it (a
+ * left-looking sweep); what remains below row k (k = columns kept so far) is its component
+ * orthogonal to those columns. Column j is **non-identifiable** when
+ *
+ *     ‖(I − P_k) a_j‖₂ ≤ tol · ‖a_j‖₂
+ *
+ * where P_k projects onto the kept columns before j. Otherwise a reflector is made from that
+ * remainder and j is kept. So the earliest columns of a dependent set are kept and the later one
+ * is flagged; the test is invariant to scaling any column. This is the only rank decision in the
+ * engine: solve, covariance, leverage and degrees of freedom all use `kept`.
+ *
+ * ## Tolerance `tol`
+ * - Default: `defaultTolerance(m, p) = 10 · √(m·p) · ε` with ε = 2^-52. Householder QR is
+ *   column-wise backward stable: the computed R is exact for A + ΔA with ‖Δa_j‖ ≤ c·m·p·ε·‖a_j‖
+ *   in the worst case and about √(m·p)·ε·‖a_j‖ in practice (errors add like a random walk). A
+ *   column whose distance from the earlier columns is within that perturbation cannot be told
+ *   apart from an exactly dependent one. The factor 10 is a margin for the rounding in the norms.
+ * - `0`: only an exactly zero remainder is non-identifiable (all-zero columns, exact copies that
+ *   round to the same values, and columns beyond the m-th kept one).
+ * - `NaN` or `undefined`: the default.
+ * - Negative: rejected (throws LsqError).
+ * - ≥ 1 (including +Infinity): every column is non-identifiable (the remainder never exceeds
+ *   the column norm); allowed but pointless.
+ *
+ * ## Packed storage (on exit, in `a`)
+ * For the k-th kept column c = kept[k]: rows 0..k of column c hold R(0..k, k); rows k+1..m−1 hold
+ * the reflector v_k without its leading 1. For a non-identifiable column j: rows 0..keptBefore[j]−1
+ * hold Q_kᵀ a_j restricted to the kept coordinates (used for its dependency relation); the rest
+ * holds the reduced remainder.
+ */
+import { LsqError } from "./errors";
+
+export const EPS = 2.220446049250313e-16;
+
+/** Default rank tolerance for an m×p design (see the module comment for why). */
+export function defaultTolerance(m: number, p: number): number {
+  return 10 * Math.sqrt(Math.max(1, m) * Math.max(1, p)) * EPS;
+}
+
+export class HouseholderQR {
+  /** Number of rows. */
+  readonly m: number;
+  /** Number of columns visited (design columns). */
+  readonly p: number;
+  /** Packed factor, m×p column-major (see module comment). */
+  readonly a: Float64Array;
+  /** Reflector scalars τ_k, one per kept column. */
+  readonly tau: Float64Array;
+  /** Design columns kept, in order (length = rank). */
+  readonly kept: Int32Array;
+  /** Design columns found non-identifiable, in order. */
+  readonly dropped: Int32Array;
+  /** For each design column j: how many kept columns precede it. */
+  readonly keptBefore: Int32Array;
+  /** For each design column j: ‖(I − P) a_j‖ / ‖a_j‖ at the moment of its decision (0 for a zero column). */
+  readonly remainderRatio: Float64Array;
+  /** The tolerance actually used. */
+  readonly tolerance: number;
+  /** Rank: number of kept columns. */
+  readonly rank: number;
+
+  /**
+   * Factor `a` (m×p, column-major) in place.
+   * @param a - design, overwritten with the packed factor
+   * @param m - rows (≥ 0)
+   * @param p - columns (≥ 0)
+   * @param tol - rank tolerance; NaN/undefined = default, 0 = exact zero only, negative = error
+   */
+  constructor(a: Float64Array, m: number, p: number, tol?: number) {
+    if (a.length < m * p) throw new LsqError("shape", "design storage is smaller than rows × columns");
+    let t = tol === undefined || Number.isNaN(tol) ? defaultTolerance(m, p) : tol;
+    if (t < 0) throw new LsqError("range", "the rank tolerance must be zero or positive");
+    this.m = m;
+    this.p = p;
+    this.a = a;
+    this.tolerance = t;
+    const tau = new Float64Array(Math.min(m, p));
+    const kept: number[] = [];
+    const dropped: number[] = [];
+    const keptBefore = new Int32Array(p);
+    const ratio = new Float64Array(p);
+    let k = 0;
+    for (let j = 0; j < p; j++) {
+      const cj = j * m;
+      const norm0 = nrm2(a, cj, m);
+      // Left-looking: apply H_0 … H_{k−1} to column j.
+      for (let q = 0; q < k; q++) applyReflector(a, kept[q]! * m, q, m, tau[q]!, cj);
+      keptBefore[j] = k;
+      const rest = k < m ? nrm2(a, cj + k, m - k) : 0;
+      ratio[j] = norm0 > 0 ? rest / norm0 : 0;
+      if (norm0 === 0 || rest <= t * norm0 || !(rest > 0)) {
+        dropped.push(j);
+        continue;
+      }
+      tau[k] = makeReflector(a, cj + k, m - k, rest);
+      kept.push(j);
+      k++;
+    }
+    this.tau = tau;
+    this.kept = Int32Array.from(kept);
+    this.dropped = Int32Array.from(dropped);
+    this.keptBefore = keptBefore;
+    this.remainderRatio = ratio;
+    this.rank = k;
+  }
+
+  /** R(i, k) for i ≤ k < rank. */
+  r(i: number, k: number): number {
+    return this.a[this.kept[k]! * this.m + i]!;
+  }
+
+  /** v ← Qᵀ v using the first `nk` reflectors (v has length m, stride 1 from `off`). */
+  applyQt(nk: number, v: Float64Array, off = 0): void {
+    for (let q = 0; q < nk; q++) applyReflectorTo(this.a, this.kept[q]! * this.m, q, this.m, this.tau[q]!, v, off);
+  }
+
+  /** v ← Q v using the first `nk` reflectors. */
+  applyQ(nk: number, v: Float64Array, off = 0): void {
+    for (let q = nk - 1; q >= 0; q--) applyReflectorTo(this.a, this.kept[q]! * this.m, q, this.m, this.tau[q]!, v, off);
+  }
+
+  /** Solve R(0:nk, 0:nk) z = v in place (back substitution); v[off .. off+nk). */
+  solveR(nk: number, v: Float64Array, off = 0): void {
+    const { a, m, kept } = this;
+    for (let k = nk - 1; k >= 0; k--) {
+      const c = kept[k]! * m;
+      const zk = v[off + k]! / a[c + k]!;
+      v[off + k] = zk;
+      for (let i = 0; i < k; i++) v[off + i]! -= a[c + i]! * zk;
+    }
+  }
+
+  /** Solve R(0:nk, 0:nk)ᵀ z = v in place (forward substitution). */
+  solveRt(nk: number, v: Float64Array, off = 0): void {
+    const { a, m, kept } = this;
+    for (let k = 0; k < nk; k++) {
+      const c = kept[k]! * m;
+      let s = v[off + k]!;
+      for (let i = 0; i < k; i++) s -= a[c + i]! * v[off + i]!;
+      v[off + k] = s / a[c + k]!;
+    }
+  }
+
+  /** The first `nk` columns of Q (m×nk, column-major): an orthonormal basis of the kept columns. */
+  thinQ(nk = this.rank): Float64Array {
+    const { m } = this;
+    const out = new Float64Array(m * nk);
+    for (let k = 0; k < nk; k++) {
+      out[k * m + k] = 1;
+      this.applyQ(nk, out, k * m);
+    }
+    return out;
+  }
+}
+
+/** Euclidean norm of n entries from a[off], without harmful overflow or underflow. */
+export function nrm2(a: Float64Array, off: number, n: number): number {
+  let s = 0;
+  for (let i = off, e = off + n; i < e; i++) {
+    const v = a[i]!;
+    s += v * v;
+  }
+  if (s > 1e-280 && s < 1e280) return Math.sqrt(s);
+  // Rare path: rescale by the largest magnitude.
+  let mx = 0;
+  for (let i = off, e = off + n; i < e; i++) mx = Math.max(mx, Math.abs(a[i]!));
+  if (mx === 0 || !Number.isFinite(mx)) return mx;
+  s = 0;
+  for (let i = off, e = off + n; i < e; i++) {
+    const v = a[i]! / mx;
+    s += v * v;
+  }
+  return mx * Math.sqrt(s);
+}
+
+/**
+ * Turn x = a[off .. off+n) (with ‖x‖ = norm > 0) into a reflector: on exit a[off] = β and
+ * a[off+1 ..] = v[1 ..] with v[0] = 1, so that (I − τ v vᵀ) x = β e₁. Returns τ.
+ */
+function makeReflector(a: Float64Array, off: number, n: number, norm: number): number {
+  const alpha = a[off]!;
+  const beta = alpha >= 0 ? -norm : norm;
+  const tau = (beta - alpha) / beta;
+  const inv = 1 / (alpha - beta);
+  for (let i = off + 1, e = off + n; i < e; i++) a[i]! *= inv;
+  a[off] = beta;
+  return tau;
+}
+
+/** Apply H_q (reflector stored in column at vOff, pivot row q) to column at cOff of the same array. */
+function applyReflector(a: Float64Array, vOff: number, q: number, m: number, tau: number, cOff: number): void {
+  applyReflectorTo(a, vOff, q, m, tau, a, cOff);
+}
+
+/** Apply H_q to the vector c[cOff .. cOff+m). */
+function applyReflectorTo(a: Float64Array, vOff: number, q: number, m: number, tau: number, c: Float64Array, cOff: number): void {
+  if (tau === 0) return;
+  const v0 = vOff + q;
+  const c0 = cOff + q;
+  const n = m - q;
+  let s = c[c0]!;
+  for (let i = 1; i < n; i++) s += a[v0 + i]! * c[c0 + i]!;
+  s *= tau;
+  c[c0]! -= s;
+  for (let i = 1; i < n; i++) c[c0 + i]! -= s * a[v0 + i]!;
+}

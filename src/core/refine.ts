@@ -1,0 +1,181 @@
+/**
+ * Iterative refinement of least-squares solutions on the augmented system (Björck):
+ *
+ *     [ I   A ] [ r ]   [ b ]
+ *     [ Aᵀ  0 ] [ x ] = [ c ]
+ *
+ * where A = the first `nk` kept columns of the equilibrated design, given exactly as a
+ * double-double matrix Ahi + Alo (Alo may be null when the design is exactly representable).
+ * With c = 0 this is the least-squares problem min ‖b − A x‖ (r = b − A x); with b = 0 and
+ * c = e_j it gives x = −(AᵀA)⁻¹ e_j, the j-th column of the (negated) unscaled covariance.
+ *
+ * Each step computes the residuals of both block rows with error-free transformations
+ * (TwoProduct by Dekker splitting, TwoSum; compensated in the style of Ogita–Rump–Oishi's
+ * Dot2, i.e. as if in twice the working precision), then solves for the corrections with the
+ * existing QR factor:
+ *
+ *     f = b − r − A x,  g = c − Aᵀ r
+ *     h = R⁻ᵀ g,  d = Qᵀ f,  δx = R⁻¹ (d₁ − h),  δr = Q [h; d₂]
+ *
+ * Starting from r = 0, x = 0 the first step is the ordinary QR solution. A right-hand side
+ * stops when its correction is below ε‖x‖ or no longer shrinks by half (a correction that grew
+ * is not applied), or after `maxSteps`.
+ */
+import type { HouseholderQR } from "./qr";
+import { EPS } from "./qr";
+import { SPLITTER } from "./dd";
+
+/** A double-double design: columns are addressed as col·m, m = design rows. */
+export interface DDMatrix {
+  readonly m: number;
+  readonly hi: Float64Array;
+  readonly lo: Float64Array | null;
+}
+
+export interface RefineResult {
+  /** Solutions, nk × nr column-major. */
+  x: Float64Array;
+  /** Residual blocks r, m × nr column-major. */
+  r: Float64Array;
+  /** Refinement steps taken (including the first solve), per right-hand side. */
+  steps: Int32Array;
+  /** Whether each right-hand side met the ε‖x‖ stopping test (false: stagnated or hit the limit). */
+  converged: boolean[];
+}
+
+export interface RefineOptions {
+  maxSteps?: number;
+}
+
+/**
+ * Solve the augmented system for nr right-hand sides and refine.
+ * @param qr - factor of the design (its first nk kept columns are used)
+ * @param A - the exact design (dd), same column numbering as the factor
+ * @param nk - number of leading kept columns to use (≤ qr.rank)
+ * @param nr - number of right-hand sides
+ * @param bHi - first block, m × nr (null for zero)
+ * @param bLo - low parts of the first block (null for exact)
+ * @param c - second block, nk × nr (null for zero)
+ */
+export function refineAugmented(
+  qr: HouseholderQR,
+  A: DDMatrix,
+  nk: number,
+  nr: number,
+  bHi: Float64Array | null,
+  bLo: Float64Array | null,
+  c: Float64Array | null,
+  opts: RefineOptions = {},
+): RefineResult {
+  const m = qr.m;
+  const maxSteps = opts.maxSteps ?? 12;
+  const x = new Float64Array(nk * nr);
+  const r = new Float64Array(m * nr);
+  const steps = new Int32Array(nr);
+  const converged: boolean[] = new Array<boolean>(nr).fill(false);
+  const f = new Float64Array(m);
+  const comp = new Float64Array(m);
+  const g = new Float64Array(nk);
+  const dx = new Float64Array(nk);
+  const cols = qr.kept.subarray(0, nk);
+  for (let t = 0; t < nr; t++) {
+    const xo = t * nk;
+    const ro = t * m;
+    let prev = Infinity;
+    for (let step = 0; step < maxSteps; step++) {
+      // f = b − r − A x  (compensated)
+      for (let i = 0; i < m; i++) {
+        const bh = bHi ? bHi[ro + i]! : 0;
+        const ri = r[ro + i]!;
+        const s = bh - ri;
+        const bb = s - bh;
+        f[i] = s;
+        comp[i] = bh - (s - bb) + (-ri - bb) + (bLo ? bLo[ro + i]! : 0);
+      }
+      for (let k = 0; k < nk; k++) {
+        const xk = x[xo + k]!;
+        if (xk === 0) continue;
+        residualUpdate(A, cols[k]!, -xk, f, comp, m);
+      }
+      for (let i = 0; i < m; i++) f[i] = f[i]! + comp[i]!;
+      // g = c − Aᵀ r
+      for (let k = 0; k < nk; k++) g[k] = dotResidual(A, cols[k]!, c ? c[t * nk + k]! : 0, r, ro, m);
+      // corrections
+      qr.solveRt(nk, g);
+      qr.applyQt(nk, f);
+      for (let k = 0; k < nk; k++) dx[k] = f[k]! - g[k]!;
+      qr.solveR(nk, dx);
+      for (let k = 0; k < nk; k++) f[k] = g[k]!;
+      qr.applyQ(nk, f); // δr
+      let nd = 0;
+      let nx = 0;
+      for (let k = 0; k < nk; k++) {
+        nd = Math.max(nd, Math.abs(dx[k]!));
+        nx = Math.max(nx, Math.abs(x[xo + k]! + dx[k]!));
+      }
+      if (step > 0 && !(nd < prev)) break; // stagnated or diverging: keep the last iterate
+      for (let k = 0; k < nk; k++) x[xo + k]! += dx[k]!;
+      for (let i = 0; i < m; i++) r[ro + i]! += f[i]!;
+      steps[t] = step + 1;
+      if (nd <= EPS * nx) {
+        converged[t] = true;
+        break;
+      }
+      if (step > 0 && nd > 0.5 * prev) break;
+      prev = nd;
+    }
+  }
+  return { x, r, steps, converged };
+}
+
+/**
+ * (s, comp) += α · A(:, col), with s updated by TwoSum and every rounding error (of the
+ * product by TwoProduct, of the sum by TwoSum, and the low-part product) collected in comp.
+ */
+export function residualUpdate(A: DDMatrix, col: number, alpha: number, s: Float64Array, comp: Float64Array, m: number): void {
+  const hi = A.hi;
+  const lo = A.lo;
+  const off = col * m;
+  let t = SPLITTER * alpha;
+  const xh = t - (t - alpha);
+  const xl = alpha - xh;
+  for (let i = 0; i < m; i++) {
+    const a = hi[off + i]!;
+    const p = a * alpha;
+    t = SPLITTER * a;
+    const ah = t - (t - a);
+    const al = a - ah;
+    const pe = ah * xh - p + ah * xl + al * xh + al * xl;
+    const si = s[i]!;
+    const sn = si + p;
+    const bb = sn - si;
+    s[i] = sn;
+    comp[i]! += si - (sn - bb) + (p - bb) + pe + (lo ? lo[off + i]! * alpha : 0);
+  }
+}
+
+/** c0 − Σ_i A(i, col) · v[vo + i], compensated (Dot2 with the low part of A folded in). */
+export function dotResidual(A: DDMatrix, col: number, c0: number, v: Float64Array, vo: number, m: number): number {
+  const hi = A.hi;
+  const lo = A.lo;
+  const off = col * m;
+  let s = c0;
+  let e = 0;
+  for (let i = 0; i < m; i++) {
+    const a = hi[off + i]!;
+    const b = -v[vo + i]!;
+    const p = a * b;
+    let t = SPLITTER * a;
+    const ah = t - (t - a);
+    const al = a - ah;
+    t = SPLITTER * b;
+    const bh = t - (t - b);
+    const bl = b - bh;
+    const pe = ah * bh - p + ah * bl + al * bh + al * bl;
+    const sn = s + p;
+    const bb = sn - s;
+    e += s - (sn - bb) + (p - bb) + pe + (lo ? lo[off + i]! * b : 0);
+    s = sn;
+  }
+  return s + e;
+}
