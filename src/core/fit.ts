@@ -44,6 +44,8 @@ export interface Dependency {
   readonly on: Int32Array;
   /** Coefficients in the user's units: column ≈ Σ coef[t] · column on[t]. */
   readonly coef: Float64Array;
+  /** The same coefficients for the equilibrated columns (a measure of each term's share). */
+  readonly scaled: Float64Array;
   /** True when the column is zero in every used row (then coef is empty). */
   readonly zero: boolean;
   /** Relative size of the part of the column not explained by the relation (0 = exact). */
@@ -263,7 +265,7 @@ export class LeastSquaresFit {
       const nk = qr.keptBefore[j]!;
       const colNorm = nrm2(design.hi, j * n, n);
       if (colNorm === 0) {
-        out.push({ column: j, on: new Int32Array(0), coef: new Float64Array(0), zero: true, remainder: 0 });
+        out.push({ column: j, on: new Int32Array(0), coef: new Float64Array(0), scaled: new Float64Array(0), zero: true, remainder: 0 });
         continue;
       }
       const bHi = design.hi.subarray(j * n, (j + 1) * n);
@@ -273,7 +275,7 @@ export class LeastSquaresFit {
       const coef = new Float64Array(nk);
       for (let k = 0; k < nk; k++) coef[k] = scaleByPow2(sol!.x[k]!, cs[on[k]!]! - cs[j]!);
       const rem = sol ? nrm2(sol.r, 0, n) / colNorm : 1;
-      out.push({ column: j, on, coef, zero: false, remainder: rem });
+      out.push({ column: j, on, coef, scaled: sol ? sol.x : new Float64Array(0), zero: false, remainder: rem });
     }
     this.depCache = out;
     return out;

@@ -1,0 +1,154 @@
+/**
+ * From spreadsheet arguments to a (cached) fit: validation with messages that say what and
+ * where, orientation of row-wise data, default labels, and the reasons rows were skipped.
+ */
+import { LeastSquaresFit } from "../core/fit";
+import { LsqError } from "../core/errors";
+import { MAX_DEGREE, RowStatus } from "../core/design";
+import { ContentCache } from "./cache";
+import { SheetError, type ErrorCodeText } from "./cellerror";
+import { CellKind, KIND_WORDS, readBlock, readBoolean, readNumber, readVector, shapeOf, type Block } from "./values";
+
+/** Documented size limits: above these the functions answer #NUM! instead of freezing the host. */
+export const LIMITS = {
+  /** Cells in y, x and weights together. */
+  maxCells: 12_000_000,
+  /** Design columns (intercept + x columns or powers). */
+  maxParameters: 200,
+  /** Rows × parameters², a proxy for the work of one factorization. */
+  maxWork: 4e9,
+};
+
+export interface Model {
+  readonly fit: LeastSquaresFit;
+  /** Labels of the design columns, intercept first. */
+  readonly labels: string[];
+  /** Input rows m. */
+  readonly m: number;
+  /** y was given as a row (results that follow y's rows are returned as a row). */
+  readonly asRow: boolean;
+  /** Why input row i (0-based) was skipped, in words. */
+  skipReason(i: number): string;
+}
+
+const cache = new ContentCache<Model | SheetError>(32);
+
+/** Cache statistics (for tests and the benchmark). */
+export function cacheStats(): { hits: number; misses: number; size: number } {
+  return { hits: cache.hits, misses: cache.misses, size: cache.size };
+}
+
+export function clearCache(): void {
+  cache.clear();
+  cache.hits = 0;
+  cache.misses = 0;
+}
+
+/** Default design labels: intercept, then x (one column), x1…xk, or x, x², …, x^d. */
+export function defaultLabels(intercept: boolean, k: number, degree: number, xNames?: readonly string[]): string[] {
+  const out: string[] = intercept ? ["intercept"] : [];
+  if (degree >= 2) {
+    const base = xNames?.[0] ?? "x";
+    for (let e = 1; e <= degree; e++) out.push(e === 1 ? base : `${base}${superscript(e)}`);
+  } else for (let j = 0; j < k; j++) out.push(xNames?.[j] ?? (k === 1 ? "x" : `x${j + 1}`));
+  return out;
+}
+
+function superscript(n: number): string {
+  const sup = "⁰¹²³⁴⁵⁶⁷⁸⁹";
+  return String(n)
+    .split("")
+    .map((d) => sup[Number(d)])
+    .join("");
+}
+
+/** Parse the degree argument: a whole number 1…20. */
+export function readDegree(v: unknown): number {
+  const d = readNumber(v, "degree", 1);
+  if (!Number.isInteger(d) || d < 1 || d > MAX_DEGREE) throw new SheetError("#NUM!", `degree must be a whole number from 1 to ${MAX_DEGREE} (it is ${d})`);
+  return d;
+}
+
+/** Build (or fetch from the cache) the fit for these arguments. Throws SheetError. */
+export function getModel(yArg: unknown, xArg: unknown, interceptArg: unknown, weightsArg: unknown, degreeArg: unknown): Model {
+  const intercept = readBoolean(interceptArg, "intercept", true);
+  const degree = readDegree(degreeArg);
+  const y = readVector(yArg, "y");
+  const m = y.rows;
+  const xs = shapeOf(xArg, "x");
+  let transpose = false;
+  if (xs.rows !== m) {
+    if (xs.cols === m && (y.asRow || xs.rows === 1)) transpose = true;
+    else throw new SheetError("#VALUE!", `y has ${m} values but x has ${xs.rows} rows; they must match row for row`);
+  }
+  const k = transpose ? xs.rows : xs.cols;
+  if (degree >= 2 && k !== 1) throw new SheetError("#VALUE!", `degree ${degree} needs x to be a single column, but x has ${k} columns`);
+  const hasW = !(weightsArg === null || weightsArg === undefined || (Array.isArray(weightsArg) && weightsArg.length === 1 && Array.isArray(weightsArg[0]) && weightsArg[0].length === 1 && (weightsArg[0][0] === null || weightsArg[0][0] === "")));
+  let w: Block | null = null;
+  if (hasW) {
+    w = readVector(weightsArg, "weights");
+    if (w.rows !== m) throw new SheetError("#VALUE!", `weights has ${w.rows} values but y has ${m}; they must match row for row`);
+  }
+  const p = (intercept ? 1 : 0) + (degree >= 2 ? degree : k);
+  const cells = m * (k + 1 + (w ? 1 : 0));
+  if (cells > LIMITS.maxCells) throw new SheetError("#NUM!", `the ranges hold ${cells} cells; the LSQ functions accept at most ${LIMITS.maxCells}`);
+  if (p > LIMITS.maxParameters) throw new SheetError("#NUM!", `the model has ${p} parameters; the LSQ functions accept at most ${LIMITS.maxParameters}`);
+  if (m * p * p > LIMITS.maxWork) throw new SheetError("#NUM!", `${m} rows with ${p} parameters is too much work for one cell formula (limit: rows × parameters² ≤ ${LIMITS.maxWork})`);
+  const x = readBlock(xArg, "x", transpose);
+  const key = {
+    numbers: w ? [y.data, x.data, w.data] : [y.data, x.data],
+    bytes: w ? [y.kinds, x.kinds, w.kinds] : [y.kinds, x.kinds],
+    flags: `${intercept ? 1 : 0}|${degree}|${m}|${k}|${transpose ? 1 : 0}|${y.asRow ? 1 : 0}|${w ? 1 : 0}`,
+  };
+  const got = cache.get(key, () => {
+    try {
+      const fit = new LeastSquaresFit({ y: y.data, x: x.data, rows: m, cols: k, intercept, weights: w ? w.data : null, degree });
+      return makeModel(fit, intercept, k, degree, m, y.asRow, y, x, w);
+    } catch (e) {
+      return toSheetError(e);
+    }
+  });
+  if (got instanceof SheetError) throw got;
+  return got;
+}
+
+function makeModel(fit: LeastSquaresFit, intercept: boolean, k: number, degree: number, m: number, asRow: boolean, y: Block, x: Block, w: Block | null): Model {
+  const labels = defaultLabels(intercept, k, degree);
+  return {
+    fit,
+    labels,
+    m,
+    asRow,
+    skipReason(i: number): string {
+      const st = fit.status[i];
+      if (st === RowStatus.MissingY) return `y is ${KIND_WORDS[y.kinds[i]!]}`;
+      if (st === RowStatus.MissingX) {
+        const c = fit.missingCol[i]!;
+        return `${k === 1 ? "x" : `x column ${c + 1}`} is ${KIND_WORDS[x.kinds[c * m + i]!]}`;
+      }
+      if (st === RowStatus.MissingWeight && w) return `the weight is ${KIND_WORDS[w.kinds[i]!]}`;
+      if (st === RowStatus.ZeroWeight) return "the weight is zero";
+      return "";
+    },
+  };
+}
+
+/** Map a core or unexpected error to one spreadsheet error. */
+export function toSheetError(e: unknown): SheetError {
+  if (e instanceof SheetError) return e;
+  if (e instanceof LsqError) {
+    const code: ErrorCodeText = e.kind === "range" ? "#NUM!" : e.kind === "shape" ? "#VALUE!" : "#N/A";
+    return new SheetError(code, e.message);
+  }
+  const msg = e instanceof Error ? e.message : String(e);
+  return new SheetError("#VALUE!", `unexpected problem: ${msg}`);
+}
+
+/** Throw #N/A when there are fewer usable rows than parameters. */
+export function requireEnoughRows(model: Model): void {
+  const { fit } = model;
+  if (fit.n === 0) throw new SheetError("#N/A", "no row has a usable y and x (and positive weight); check that the ranges hold numbers");
+  if (fit.n < fit.parameters) throw new SheetError("#N/A", `only ${fit.n} usable row${fit.n === 1 ? "" : "s"} for ${fit.parameters} parameters; add rows or use fewer columns (LSQ.CHECK explains)`);
+}
+
+export { CellKind };

@@ -1,0 +1,131 @@
+/**
+ * Spreadsheet values in: 2-D arrays from the host → column-major Float64Array.
+ *
+ * Missing-data rule: an empty cell (null or ""), text, a boolean or an error value (such as
+ * #N/A) is "missing" and its row is skipped. NaN (which no host sends) is also missing. Some
+ * hosts pass an empty cell inside a range as 0; to mark a missing value reliably, type text
+ * (e.g. "n/a") or use =NA().
+ */
+import { SheetError } from "./cellerror";
+
+/** Kinds of cell content, stored per cell so messages can say why a row was skipped. */
+export enum CellKind {
+  Number = 0,
+  Empty = 1,
+  Text = 2,
+  Boolean = 3,
+  Error = 4,
+  NotANumber = 5,
+}
+
+export const KIND_WORDS = ["a number", "empty", "text", "TRUE/FALSE", "an error value", "not a number"] as const;
+
+export interface Block {
+  /** Rows and columns after orientation. */
+  readonly rows: number;
+  readonly cols: number;
+  /** Values, column-major (rows × cols); NaN for missing. */
+  readonly data: Float64Array;
+  /** Cell kinds, same layout. */
+  readonly kinds: Uint8Array;
+}
+
+/** Check that v is a non-empty rectangular 2-D array; returns its size. */
+export function shapeOf(v: unknown, name: string): { rows: number; cols: number } {
+  if (!Array.isArray(v)) throw new SheetError("#VALUE!", `${name} must be a range or an array`);
+  const rows = v.length;
+  if (rows === 0) throw new SheetError("#VALUE!", `${name} is empty`);
+  let cols = -1;
+  for (let i = 0; i < rows; i++) {
+    const r: unknown = v[i];
+    if (!Array.isArray(r)) throw new SheetError("#VALUE!", `${name} must be a range or an array (row ${i + 1} is not a row of cells)`);
+    if (cols < 0) cols = r.length;
+    else if (r.length !== cols) throw new SheetError("#VALUE!", `${name} has rows of different lengths (row ${i + 1} has ${r.length} cells, row 1 has ${cols})`);
+  }
+  if (cols === 0) throw new SheetError("#VALUE!", `${name} is empty`);
+  return { rows, cols };
+}
+
+/** Classify one cell; returns the number (NaN if missing) and writes its kind. */
+function cellValue(c: unknown): [number, CellKind] {
+  if (typeof c === "number") return Number.isNaN(c) ? [NaN, CellKind.NotANumber] : [c, CellKind.Number];
+  if (c === null || c === undefined || c === "") return [NaN, CellKind.Empty];
+  if (typeof c === "string") return [NaN, CellKind.Text];
+  if (typeof c === "boolean") return [NaN, CellKind.Boolean];
+  return [NaN, CellKind.Error];
+}
+
+/**
+ * Read a rectangular range into column-major storage in one pass (no per-row allocation).
+ * `transpose` reads the range as its transpose (predictors laid out in rows).
+ */
+export function readBlock(v: unknown, name: string, transpose = false): Block {
+  const { rows: r0, cols: c0 } = shapeOf(v, name);
+  const rows = transpose ? c0 : r0;
+  const cols = transpose ? r0 : c0;
+  const data = new Float64Array(rows * cols);
+  const kinds = new Uint8Array(rows * cols);
+  const arr = v as unknown[][];
+  for (let i = 0; i < r0; i++) {
+    const row = arr[i]!;
+    for (let j = 0; j < c0; j++) {
+      const [val, kind] = cellValue(row[j]);
+      // Element (i, j) of the range is element (i, j) of the block, or (j, i) when transposed.
+      const at = transpose ? i * rows + j : j * rows + i;
+      data[at] = val;
+      kinds[at] = kind;
+    }
+  }
+  return { rows, cols, data, kinds };
+}
+
+/** Read a single column or single row of values (y, weights). */
+export function readVector(v: unknown, name: string): Block & { asRow: boolean } {
+  const { rows, cols } = shapeOf(v, name);
+  if (rows !== 1 && cols !== 1) throw new SheetError("#VALUE!", `${name} must be a single column or a single row (it is ${rows} × ${cols})`);
+  const asRow = rows === 1 && cols > 1;
+  const b = readBlock(v, name, asRow);
+  return { ...b, asRow };
+}
+
+/** A scalar argument: unwrap a 1×1 array (hosts may pass a single cell that way). */
+function scalar(v: unknown): unknown {
+  while (Array.isArray(v)) {
+    if (v.length !== 1) return v;
+    v = v[0];
+  }
+  return v;
+}
+
+export function readBoolean(v: unknown, name: string, dflt: boolean): boolean {
+  const s = scalar(v);
+  if (s === null || s === undefined || s === "") return dflt;
+  if (typeof s === "boolean") return s;
+  if (typeof s === "number" && Number.isFinite(s)) return s !== 0;
+  if (typeof s === "string") {
+    const t = s.trim().toUpperCase();
+    if (t === "TRUE") return true;
+    if (t === "FALSE") return false;
+  }
+  throw new SheetError("#VALUE!", `${name} must be TRUE or FALSE`);
+}
+
+export function readNumber(v: unknown, name: string, dflt: number): number {
+  const s = scalar(v);
+  if (s === null || s === undefined || s === "") return dflt;
+  if (typeof s === "number") {
+    if (!Number.isFinite(s)) throw new SheetError("#NUM!", `${name} must be a finite number`);
+    return s;
+  }
+  if (typeof s === "string" && s.trim() !== "" && Number.isFinite(Number(s))) return Number(s);
+  throw new SheetError("#VALUE!", `${name} must be a number`);
+}
+
+export function readWord(v: unknown, name: string, allowed: readonly string[]): string | null {
+  const s = scalar(v);
+  if (s === null || s === undefined || s === "") return null;
+  if (typeof s !== "string") throw new SheetError("#VALUE!", `${name} must be one of the words ${allowed.map((a) => `"${a}"`).join(" or ")}`);
+  const t = s.trim().toLowerCase();
+  if (!allowed.includes(t)) throw new SheetError("#VALUE!", `${name} must be ${allowed.map((a) => `"${a}"`).join(" or ")}, not "${s.slice(0, 40)}"`);
+  return t;
+}
