@@ -198,12 +198,9 @@ export class LeastSquaresFit {
     this.refineSteps = sol.steps[0] ?? 0;
     this.refineConverged = sol.converged[0] ?? true;
 
-    // Final residual r̃ = ỹ − X̃ b̃ in compensated arithmetic.
-    const s = Float64Array.from(yHi);
-    const comp = yLo ? Float64Array.from(yLo) : new Float64Array(n);
-    for (let k = 0; k < rank; k++) residualUpdate(this.design, this.qr.kept[k]!, -this.coefScaled[k]!, s, comp, n);
-    const r = new Float64Array(n);
-    for (let t = 0; t < n; t++) r[t] = s[t]! + comp[t]!;
+    // The refined residual block r̃ of the augmented system: it converges to the exact residual
+    // whatever the rounding of the coefficients, unlike ỹ − X̃·fl(b̃).
+    const r = sol.r;
     this.residScaled = r;
     this.rssScaled = sumSquares(r, 0, n);
   }
@@ -285,40 +282,52 @@ export class LeastSquaresFit {
 
   /**
    * Fitted values and residuals (unweighted, user units) for every input row whose x and y
-   * are complete, including zero-weight rows; NaN for skipped rows.
+   * are complete, including zero-weight rows; NaN for skipped rows. For used rows the residual
+   * is the refined residual block r̃/√w (accurate even when the coefficients are ill-determined)
+   * and the fitted value is y − residual; zero-weight rows are evaluated from the coefficients.
    */
   fittedAndResiduals(): { fitted: Float64Array; resid: Float64Array } {
     if (this.outCache) return this.outCache;
     const m = this.shape.m;
-    const rows: number[] = [];
-    for (let i = 0; i < m; i++) if (this.status[i] === RowStatus.Used || this.status[i] === RowStatus.ZeroWeight) rows.push(i);
-    const idx = Int32Array.from(rows);
-    const nc = idx.length;
-    const s = new Float64Array(nc);
-    const comp = new Float64Array(nc);
-    const colHi = new Float64Array(nc);
-    const colLo = new Float64Array(nc);
-    const col: DDMatrix = { m: nc, hi: colHi, lo: colLo };
-    const { kept } = this.qr;
-    for (let k = 0; k < kept.length; k++) {
-      const j = kept[k]!;
-      fillDesignColumn(this.spec, this.shape, j, idx, null, null, this.preExp, colHi, colLo, 0);
-      const e = this.cs[j]! + designPreExp(this.shape, this.spec.intercept, this.preExp, j);
-      // colHi holds true·2^(−pre); bring it to true·2^cs.
-      for (let t = 0; t < nc; t++) {
-        colHi[t] = scaleByPow2(colHi[t]!, e);
-        colLo[t] = scaleByPow2(colLo[t]!, e);
-      }
-      residualUpdate(col, 0, this.coefScaled[k]!, s, comp, nc);
-    }
     const fitted = new Float64Array(m).fill(NaN);
     const resid = new Float64Array(m).fill(NaN);
-    const tmp: DD = { hi: 0, lo: 0 };
-    for (let t = 0; t < nc; t++) {
-      const i = idx[t]!;
-      fitted[i] = scaleByPow2(s[t]! + comp[t]!, -this.ys);
-      twoSum(scaleByPow2(this.spec.y[i]!, this.ys), -s[t]!, tmp);
-      resid[i] = scaleByPow2(tmp.hi + (tmp.lo - comp[t]!), -this.ys);
+    const ys = this.ys;
+    const sw = this.sw;
+    for (let t = 0; t < this.n; t++) {
+      const i = this.used[t]!;
+      const r = sw ? this.residScaled[t]! / sw.hi[t]! : this.residScaled[t]!;
+      resid[i] = scaleByPow2(r, -ys);
+      fitted[i] = scaleByPow2(scaleByPow2(this.spec.y[i]!, ys) - r, -ys);
+    }
+    const rows: number[] = [];
+    for (let i = 0; i < m; i++) if (this.status[i] === RowStatus.ZeroWeight) rows.push(i);
+    if (rows.length > 0) {
+      const idx = Int32Array.from(rows);
+      const nc = idx.length;
+      const s = new Float64Array(nc);
+      const comp = new Float64Array(nc);
+      const colHi = new Float64Array(nc);
+      const colLo = new Float64Array(nc);
+      const col: DDMatrix = { m: nc, hi: colHi, lo: colLo };
+      const { kept } = this.qr;
+      for (let k = 0; k < kept.length; k++) {
+        const j = kept[k]!;
+        fillDesignColumn(this.spec, this.shape, j, idx, null, null, this.preExp, colHi, colLo, 0);
+        const e = this.cs[j]! + designPreExp(this.shape, this.spec.intercept, this.preExp, j);
+        // colHi holds true·2^(−pre); bring it to true·2^cs.
+        for (let t = 0; t < nc; t++) {
+          colHi[t] = scaleByPow2(colHi[t]!, e);
+          colLo[t] = scaleByPow2(colLo[t]!, e);
+        }
+        residualUpdate(col, 0, this.coefScaled[k]!, s, comp, nc);
+      }
+      const tmp: DD = { hi: 0, lo: 0 };
+      for (let t = 0; t < nc; t++) {
+        const i = idx[t]!;
+        fitted[i] = scaleByPow2(s[t]! + comp[t]!, -ys);
+        twoSum(scaleByPow2(this.spec.y[i]!, ys), -s[t]!, tmp);
+        resid[i] = scaleByPow2(tmp.hi + (tmp.lo - comp[t]!), -ys);
+      }
     }
     this.outCache = { fitted, resid };
     return this.outCache;
