@@ -131,8 +131,9 @@ export class LeastSquaresFit {
   readonly refineConverged: boolean;
   private readonly preExp: Int32Array;
   private readonly sw: { hi: Float64Array; lo: Float64Array } | null;
-  private readonly yHi: Float64Array;
-  private readonly yLo: Float64Array | null;
+  /** ỹ = y·√w·2^ys (high and low parts) for the used rows. */
+  readonly yHi: Float64Array;
+  readonly yLo: Float64Array | null;
   private covCache: Float64Array | null = null;
   private covConverged = true;
   private depCache: Dependency[] | null = null;
@@ -198,9 +199,16 @@ export class LeastSquaresFit {
     this.refineSteps = sol.steps[0] ?? 0;
     this.refineConverged = sol.converged[0] ?? true;
 
-    // The refined residual block r̃ of the augmented system: it converges to the exact residual
-    // whatever the rounding of the coefficients, unlike ỹ − X̃·fl(b̃).
-    const r = sol.r;
+    // Residual: the refined residual block r̃ of the augmented system, which converges to the
+    // exact residual whatever the rounding of the coefficients (ỹ − X̃·fl(b̃) would carry that
+    // rounding, ~ε‖X̃‖‖b̃‖). One exception: when ỹ − X̃ b̃ is exactly zero in compensated
+    // arithmetic the fit is exact and the residual is reported as exactly zero.
+    const s = Float64Array.from(yHi);
+    const comp = yLo ? Float64Array.from(yLo) : new Float64Array(n);
+    for (let k = 0; k < rank; k++) residualUpdate(this.design, this.qr.kept[k]!, -this.coefScaled[k]!, s, comp, n);
+    let exact = true;
+    for (let t = 0; t < n && exact; t++) if (s[t]! + comp[t]! !== 0) exact = false;
+    const r = exact ? new Float64Array(n) : sol.r;
     this.residScaled = r;
     this.rssScaled = sumSquares(r, 0, n);
   }

@@ -10,10 +10,22 @@
  *
  *     ‖(I − P_k) a_j‖₂ ≤ tol · ‖a_j‖₂
  *
- * where P_k projects onto the kept columns before j. Otherwise a reflector is made from that
- * remainder and j is kept. So the earliest columns of a dependent set are kept and the later one
- * is flagged; the test is invariant to scaling any column. This is the only rank decision in the
- * engine: solve, covariance, leverage and degrees of freedom all use `kept`.
+ * where P_k projects onto the kept columns before j — strictly, the right-hand side is
+ * `tol · (‖a_j‖₂ + Σ_i |z_i|·‖a_i‖₂)`, where a_j ≈ Σ z_i a_i is the relation expressing the
+ * column in the kept columns before it. The extra sum is the size of the terms of that relation:
+ * the remainder is computed with an error proportional to it (rounding in the earlier columns is
+ * multiplied by z), so without it an exactly dependent column behind two nearly dependent ones
+ * could escape detection. When the earlier columns are well conditioned the sum is of the order
+ * of ‖a_j‖ and the test is the plain "relative to its own norm" one.
+ * Otherwise a reflector is made from that remainder and j is kept. So the earliest columns of a
+ * dependent set are kept and the later one is flagged; the test is invariant to scaling any
+ * column. This is the only rank decision in the engine: solve, covariance, leverage and degrees
+ * of freedom all use `kept`.
+ *
+ * Guarantees (tested in test/rank.test.ts): the rank is never more than the true rank of matrices
+ * of known rank; a matrix with unit-norm columns whose smallest singular value is at least
+ * 100·tol is full rank (its remainders are at least σ_min·max(1, ‖z‖₂), above the threshold for
+ * up to several hundred columns).
  *
  * ## Tolerance `tol`
  * - Default: `defaultTolerance(m, p) = 10 · √(m·p) · ε` with ε = 2^-52. Householder QR is
@@ -86,6 +98,8 @@ export class HouseholderQR {
     const keptBefore = new Int32Array(p);
     const ratio = new Float64Array(p);
     let k = 0;
+    const keptNorm = new Float64Array(Math.min(m, p));
+    const z = new Float64Array(Math.min(m, p));
     for (let j = 0; j < p; j++) {
       const cj = j * m;
       const norm0 = nrm2(a, cj, m);
@@ -94,11 +108,24 @@ export class HouseholderQR {
       keptBefore[j] = k;
       const rest = k < m ? nrm2(a, cj + k, m - k) : 0;
       ratio[j] = norm0 > 0 ? rest / norm0 : 0;
-      if (norm0 === 0 || rest <= t * norm0 || !(rest > 0)) {
+      // Size of the relation's terms: Σ |z_i|·‖a_i‖ with R z = (Qᵀ a_j)(0:k).
+      let terms = 0;
+      if (k > 0 && norm0 > 0) {
+        for (let i = 0; i < k; i++) z[i] = a[cj + i]!;
+        for (let i = k - 1; i >= 0; i--) {
+          const c = kept[i]! * m;
+          const zi = z[i]! / a[c + i]!;
+          z[i] = zi;
+          for (let l = 0; l < i; l++) z[l]! -= a[c + l]! * zi;
+        }
+        for (let i = 0; i < k; i++) terms += Math.abs(z[i]!) * keptNorm[i]!;
+      }
+      if (norm0 === 0 || rest <= t * (norm0 + terms) || !(rest > 0)) {
         dropped.push(j);
         continue;
       }
       tau[k] = makeReflector(a, cj + k, m - k, rest);
+      keptNorm[k] = norm0;
       kept.push(j);
       k++;
     }
