@@ -90,7 +90,8 @@ module.exports = (env, argv) => {
       static: { directory: path.resolve(__dirname, "dist") },
       headers: { "Access-Control-Allow-Origin": "*" },
       server: serverOptions(),
-      client: { overlay: false },
+      // No injected dev client: functions.js must stay free of DOM and WebSocket code. Reload the pane by hand.
+      client: false,
       hot: false,
       liveReload: false,
     },

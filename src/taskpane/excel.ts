@@ -1,0 +1,144 @@
+/**
+ * The pane inside the spreadsheet (shared runtime). When the selection moves to a cell that holds
+ * or spills from an LSQ formula, the pane shows that fit: the functions record each call by
+ * calling-cell address (src/functions/registry.ts), and the pane recomputes the model from the
+ * recorded arguments (a cache hit) with column labels read from the header cell above each x column.
+ *
+ * Excel API calls used (and stood in for by the browser tests): Office.context.document.
+ * addHandlerAsync(DocumentSelectionChanged), Excel.run with workbook.getActiveCell(),
+ * range.getSpillParentOrNullObject(), worksheets.getItem(name).getRange(address),
+ * range.getRow(0).getOffsetRange(-1, 0), worksheets.add(), range.values / range.formulas.
+ */
+/* global Excel, Office */
+import { lookup, type FormulaRecord } from "../functions/registry";
+import { defaultLabels, getModel, toSheetError } from "../functions/model";
+import { el, renderFit } from "./render";
+import { EXAMPLES } from "./examples";
+
+function splitAddress(a: string): { sheet: string; local: string } | null {
+  const i = a.lastIndexOf("!");
+  if (i < 0) return null;
+  return { sheet: a.slice(0, i).replace(/^'(.*)'$/, "$1").replace(/''/g, "'"), local: a.slice(i + 1) };
+}
+
+/** First row number of a local address such as "B2:D13" (1-based), or 1. */
+function firstRow(local: string): number {
+  const m = /[A-Z]+\$?(\d+)/i.exec(local.replace(/\$/g, ""));
+  return m ? Number(m[1]) : 1;
+}
+
+async function headerLabels(rec: FormulaRecord): Promise<string[] | null> {
+  const xAddr = rec.parameterAddresses[1];
+  const parts = xAddr ? splitAddress(xAddr) : null;
+  if (!parts) return null;
+  try {
+    return await Excel.run(async (ctx) => {
+      const range = ctx.workbook.worksheets.getItem(parts.sheet).getRange(parts.local);
+      const above = range.getRow(0).getOffsetRange(-1, 0);
+      above.load("values");
+      await ctx.sync();
+      const v = (above.values[0] ?? []) as unknown[];
+      return v.map((c, j) => (typeof c === "string" && c.trim() !== "" ? c.trim() : `column ${j + 1} of x`));
+    });
+  } catch {
+    return null; // x starts in row 1, or the sheet was renamed: fall back to generic labels
+  }
+}
+
+export function startExcel(app: HTMLElement): void {
+  app.replaceChildren();
+  const tools = el("div", undefined, "row tools");
+  const insert = el("button", "Insert example");
+  insert.type = "button";
+  insert.title = "Adds a worksheet with invented data and one formula for each LSQ function";
+  tools.appendChild(insert);
+  app.appendChild(tools);
+  const status = el("p", "Select a cell that holds an LSQ formula, or one of its results.", "message");
+  status.id = "status";
+  app.appendChild(status);
+  const out = el("div", undefined, "output");
+  out.id = "output";
+  out.setAttribute("aria-live", "polite");
+  app.appendChild(out);
+
+  insert.addEventListener("click", () => {
+    insertExample().catch((e: unknown) => (status.textContent = `Could not insert the example: ${e instanceof Error ? e.message : String(e)}`));
+  });
+
+  const show = async (): Promise<void> => {
+    const where = await Excel.run(async (ctx) => {
+      const cell = ctx.workbook.getActiveCell();
+      cell.load("address");
+      const parent = cell.getSpillParentOrNullObject();
+      parent.load("address");
+      await ctx.sync();
+      return { address: cell.address, anchor: parent.isNullObject ? null : parent.address };
+    });
+    const rec = (where.anchor ? lookup(where.anchor) : undefined) ?? lookup(where.address);
+    if (!rec) {
+      status.textContent = `${where.address} does not hold an LSQ formula. Select a cell with one (or one of its results) to see its fit explained.`;
+      out.replaceChildren();
+      return;
+    }
+    const [y, x, a2, a3, a4, a5] = rec.args;
+    const isPredict = rec.fn === "PREDICT";
+    const intercept = isPredict ? a3 : a2;
+    const weights = isPredict ? a4 : a3;
+    const degree = isPredict ? a5 : a4;
+    try {
+      const model = getModel(y, x, intercept, weights, degree);
+      const header = await headerLabels(rec);
+      const labels = defaultLabels(model.fit.spec.intercept, model.fit.shape.k, model.fit.shape.degree, header ?? undefined);
+      const yAddr = rec.parameterAddresses[0] ? splitAddress(rec.parameterAddresses[0]) : null;
+      const row0 = yAddr ? firstRow(yAddr.local) : 1;
+      status.textContent = `LSQ.${rec.fn} in ${rec.address}`;
+      renderFit(out, model, labels, { rowNumber: (i) => row0 + i, title: "Row numbers are worksheet rows." });
+    } catch (e) {
+      const err = toSheetError(e);
+      status.textContent = `LSQ.${rec.fn} in ${rec.address} shows ${err.code}: ${err.message}`;
+      out.replaceChildren();
+    }
+  };
+
+  const safeShow = (): void => {
+    show().catch((e: unknown) => (status.textContent = `Could not read the selection: ${e instanceof Error ? e.message : String(e)}`));
+  };
+  Office.context.document.addHandlerAsync(Office.EventType.DocumentSelectionChanged, safeShow);
+  safeShow();
+}
+
+/** A new worksheet with the dependent-columns example and one formula for each LSQ function. */
+async function insertExample(): Promise<void> {
+  const ex = EXAMPLES.find((e) => e.id === "dependent")!;
+  await Excel.run(async (ctx) => {
+    const sheets = ctx.workbook.worksheets;
+    sheets.load("items/name");
+    await ctx.sync();
+    const names = new Set(sheets.items.map((s) => s.name));
+    let name = "Colspace example";
+    for (let i = 2; names.has(name); i++) name = `Colspace example ${i}`;
+    const sh = sheets.add(name);
+    const n = ex.rows.length;
+    const last = n + 1;
+    sh.getRange(`A1:D${last}`).values = [ex.header.slice(), ...ex.rows.map((r) => r.slice())] as (string | number)[][];
+    const Y = `A2:A${last}`;
+    const X = `B2:D${last}`;
+    const put = (label: string, at: string, formula: string, col: string, row: number): void => {
+      sh.getRange(`${col}${row - 1}`).values = [[label]];
+      sh.getRange(at).formulas = [[formula]];
+    };
+    put("LSQ.COEF", "F2", `=LSQ.COEF(${Y},${X})`, "F", 2);
+    put("LSQ.PARAMS", "H2", `=LSQ.PARAMS(${Y},${X})`, "H", 2);
+    put("LSQ.COV", "F8", `=LSQ.COV(${Y},${X})`, "F", 8);
+    put("LSQ.STATS", "O2", `=LSQ.STATS(${Y},${X})`, "O", 2);
+    put("LSQ.FITTED", "R2", `=LSQ.FITTED(${Y},${X})`, "R", 2);
+    put("LSQ.RESID", "S2", `=LSQ.RESID(${Y},${X})`, "S", 2);
+    put("LSQ.INFLUENCE", "U2", `=LSQ.INFLUENCE(${Y},${X})`, "U", 2);
+    put("LSQ.PREDICT", "F14", `=LSQ.PREDICT(${Y},${X},B${last - 1}:D${last},TRUE,,,"prediction")`, "F", 14);
+    put("LSQ.CHECK", "F19", `=LSQ.CHECK(${Y},${X})`, "F", 19);
+    sh.getRange("A1:Z1").format.font.bold = true;
+    sh.activate();
+    sh.getRange("F19").select();
+    await ctx.sync();
+  });
+}
