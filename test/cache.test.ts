@@ -1,0 +1,63 @@
+/**
+ * One factorization per distinct input: COEF, PARAMS, RESID, STATS and CHECK over the same
+ * ranges factor once; any change to one input cell (value or kind) is a different key.
+ */
+import { beforeEach, describe, expect, it } from "vitest";
+import * as L from "../src/functions/lsq";
+import { cacheStats, clearCache } from "../src/functions/model";
+import { ContentCache, hashKey } from "../src/functions/cache";
+
+const y = [[1.1], [2.0], [2.8], [4.2], [5.1], [5.8], [7.2]];
+const x = [[1, 0.3], [2, 0.1], [3, 0.7], [4, 0.2], [5, 0.9], [6, 0.4], [7, 0.5]];
+
+beforeEach(() => clearCache());
+
+describe("shared factorization", () => {
+  it("five functions over the same ranges build one fit", () => {
+    L.coef(y, x, null, null, null);
+    L.params(y, x, null, null, null, 0.9);
+    L.resid(y, x, null, null, null);
+    L.stats(y, x, null, null, null);
+    L.check(y, x, null, null, null);
+    expect(cacheStats()).toMatchObject({ misses: 1, hits: 4 });
+  });
+  it("a cold and a warm call give identical results", () => {
+    const cold = L.params(y, x, null, null, null, null);
+    const warm = L.params(y, x, null, null, null, null);
+    expect(warm).toEqual(cold);
+    expect(cacheStats().hits).toBe(1);
+  });
+  it("changing any single cell, its kind, or an option misses the cache", () => {
+    L.coef(y, x, null, null, null);
+    const variants: [unknown[][], unknown[][], unknown, unknown][] = [
+      [y.map((r, i) => (i === 3 ? [4.2000000000000002 + 1e-15] : r)), x, null, null],
+      [y, x.map((r, i) => (i === 6 ? [r[0], 0.5000000000000001] : r)), null, null],
+      [y.map((r, i) => (i === 2 ? [""] : r)), x, null, null],
+      [y.map((r, i) => (i === 2 ? ["n/a"] : r)), x, null, null],
+      [y.map((r, i) => (i === 0 ? [-0] : r)), x, null, null],
+      [y, x, false, null],
+      [y, x.map((r) => [r[0]]), null, null],
+      [y, x.map((r) => [r[0]]), null, 2],
+    ];
+    for (const [yy, xx, ic, deg] of variants) {
+      const before = cacheStats().misses;
+      L.coef(yy, xx, ic, null, deg);
+      expect(cacheStats().misses).toBe(before + 1);
+    }
+  });
+  it("compares content on a hit, not only the hash", () => {
+    const c = new ContentCache<number>(4);
+    const a = { numbers: [Float64Array.from([1, 2])], bytes: [], flags: "a" };
+    const b = { numbers: [Float64Array.from([1, 3])], bytes: [], flags: "a" };
+    // Force the same bucket by comparing two keys directly: different content never shares a value.
+    expect(c.get(a, () => 1)).toBe(1);
+    expect(c.get(b, () => 2)).toBe(2);
+    expect(c.get(a, () => 3)).toBe(1);
+    expect(hashKey(a)).not.toBe(hashKey(b));
+  });
+  it("is bounded", () => {
+    const c = new ContentCache<number>(3);
+    for (let i = 0; i < 10; i++) c.get({ numbers: [Float64Array.from([i])], bytes: [], flags: "" }, () => i);
+    expect(c.size).toBe(3);
+  });
+});
