@@ -16,7 +16,7 @@ export const LIMITS = {
   /** Design columns (intercept + x columns or powers). */
   maxParameters: 200,
   /** Rows × parameters², a proxy for the work of one factorization. */
-  maxWork: 4e9,
+  maxWork: 1e9,
 };
 
 export interface Model {
@@ -69,6 +69,14 @@ export function readDegree(v: unknown): number {
   return d;
 }
 
+/** Refuse inputs above the documented limits (#NUM! with the numbers), before any work is done. */
+export function checkSize(m: number, k: number, weighted: boolean, p: number): void {
+  const cells = m * (k + 1 + (weighted ? 1 : 0));
+  if (cells > LIMITS.maxCells) throw new SheetError("#NUM!", `the ranges hold ${cells} cells; the LSQ functions accept at most ${LIMITS.maxCells}`);
+  if (p > LIMITS.maxParameters) throw new SheetError("#NUM!", `the model has ${p} parameters; the LSQ functions accept at most ${LIMITS.maxParameters}`);
+  if (m * p * p > LIMITS.maxWork) throw new SheetError("#NUM!", `${m} rows with ${p} parameters is too much work for one cell formula (limit: rows × parameters² ≤ ${LIMITS.maxWork})`);
+}
+
 /** Build (or fetch from the cache) the fit for these arguments. Throws SheetError. */
 export function getModel(yArg: unknown, xArg: unknown, interceptArg: unknown, weightsArg: unknown, degreeArg: unknown): Model {
   const intercept = readBoolean(interceptArg, "intercept", true);
@@ -90,10 +98,7 @@ export function getModel(yArg: unknown, xArg: unknown, interceptArg: unknown, we
     if (w.rows !== m) throw new SheetError("#VALUE!", `weights has ${w.rows} values but y has ${m}; they must match row for row`);
   }
   const p = (intercept ? 1 : 0) + (degree >= 2 ? degree : k);
-  const cells = m * (k + 1 + (w ? 1 : 0));
-  if (cells > LIMITS.maxCells) throw new SheetError("#NUM!", `the ranges hold ${cells} cells; the LSQ functions accept at most ${LIMITS.maxCells}`);
-  if (p > LIMITS.maxParameters) throw new SheetError("#NUM!", `the model has ${p} parameters; the LSQ functions accept at most ${LIMITS.maxParameters}`);
-  if (m * p * p > LIMITS.maxWork) throw new SheetError("#NUM!", `${m} rows with ${p} parameters is too much work for one cell formula (limit: rows × parameters² ≤ ${LIMITS.maxWork})`);
+  checkSize(m, k, w !== null, p);
   const x = readBlock(xArg, "x", transpose);
   const key = {
     numbers: w ? [y.data, x.data, w.data] : [y.data, x.data],
