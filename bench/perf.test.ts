@@ -1,0 +1,115 @@
+/**
+ * `npm run bench` (via scripts/bench.mjs): one size per process, seeded data, median times.
+ * (a) engine full fit: factorization, refinement, coefficients, residuals and covariance;
+ * (b) LSQ.COEF end to end from a 2-D array, as the host calls it (cache cleared first);
+ * (c) five LSQ functions over the same ranges, one after another (cache cleared first);
+ * (d) ml-matrix's QR solve on the same design;
+ * (e) numpy.linalg.lstsq single-threaded on the same data (scripts/bench_numpy.py), when
+ *     Debian's python3-numpy is installed.
+ * Results go to the file named by BENCH_OUT as JSON; scripts/bench.mjs prints the table.
+ */
+import { it } from "vitest";
+import { writeFileSync } from "node:fs";
+import { spawnSync } from "node:child_process";
+import { tmpdir } from "node:os";
+import { join, resolve } from "node:path";
+import { Matrix, QrDecomposition } from "ml-matrix";
+import { LeastSquaresFit } from "../src/core/fit";
+import * as L from "../src/functions/lsq";
+import { clearCache } from "../src/functions/model";
+
+/** Seeded normal generator (mulberry32 + Box–Muller). */
+function gen(seed: number): () => number {
+  let a = seed >>> 0;
+  const u = (): number => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+  return () => Math.sqrt(-2 * Math.log(Math.max(u(), 1e-300))) * Math.cos(2 * Math.PI * u());
+}
+
+function median(xs: number[]): number {
+  const s = [...xs].sort((p, q) => p - q);
+  return s[Math.floor(s.length / 2)]!;
+}
+
+function time(reps: number, f: () => unknown): { ms: number; keep: unknown } {
+  const ts: number[] = [];
+  let keep: unknown = null;
+  for (let r = 0; r < reps; r++) {
+    const t0 = performance.now();
+    keep = f();
+    ts.push(performance.now() - t0);
+  }
+  return { ms: median(ts), keep };
+}
+
+it("benchmark one size", () => {
+  const m = Number(process.env.BENCH_ROWS ?? 1000);
+  const k = Number(process.env.BENCH_COLS ?? 5);
+  const reps = Number(process.env.BENCH_REPS ?? (m >= 1e6 ? 3 : m >= 1e5 ? 5 : 9));
+  const g = gen(12345 + m + k);
+  const x = new Float64Array(m * k);
+  for (let i = 0; i < x.length; i++) x[i] = g() * (1 + (i % 7));
+  const y = new Float64Array(m);
+  for (let i = 0; i < m; i++) {
+    let v = g();
+    for (let j = 0; j < k; j++) v += x[j * m + i]! * (j + 1) * 0.1;
+    y[i] = v;
+  }
+  const inputBytes = (x.length + y.length) * 8;
+  const out: Record<string, unknown> = { rows: m, cols: k };
+
+  const engine = time(reps, () => {
+    const f = new LeastSquaresFit({ y, x, rows: m, cols: k, intercept: true });
+    f.coefficients();
+    f.fittedAndResiduals();
+    f.scaledCovariance();
+    return f;
+  });
+  out.engineMs = engine.ms;
+
+  const y2 = Array.from(y, (v) => [v]);
+  const x2 = Array.from({ length: m }, (_, i) => Array.from({ length: k }, (_, j) => x[j * m + i]!));
+  out.coefMs = time(reps, () => {
+    clearCache();
+    return L.coef(y2, x2, null, null, null);
+  }).ms;
+  out.fiveMs = time(reps, () => {
+    clearCache();
+    L.coef(y2, x2, null, null, null);
+    L.params(y2, x2, null, null, null, null);
+    L.resid(y2, x2, null, null, null);
+    L.stats(y2, x2, null, null, null);
+    return L.check(y2, x2, null, null, null);
+  }).ms;
+
+  const mlReps = m >= 1e6 ? 1 : Math.min(reps, 3);
+  const design = new Matrix(m, k + 1);
+  for (let i = 0; i < m; i++) {
+    design.set(i, 0, 1);
+    for (let j = 0; j < k; j++) design.set(i, j + 1, x[j * m + i]!);
+  }
+  const rhs = Matrix.columnVector(Array.from(y));
+  out.mlMatrixMs = time(mlReps, () => new QrDecomposition(design).solve(rhs)).ms;
+
+  // numpy anchor on the same data, single-threaded
+  const dir = tmpdir();
+  const fx = join(dir, `colspace-bench-x-${process.pid}.f64`);
+  const fy = join(dir, `colspace-bench-y-${process.pid}.f64`);
+  writeFileSync(fx, Buffer.from(x.buffer));
+  writeFileSync(fy, Buffer.from(y.buffer));
+  const py = spawnSync("/usr/bin/python3", [resolve(__dirname, "../scripts/bench_numpy.py"), fx, fy, String(m), String(k), String(reps)], {
+    env: { ...process.env, OPENBLAS_NUM_THREADS: "1", OMP_NUM_THREADS: "1", MKL_NUM_THREADS: "1" },
+    encoding: "utf8",
+  });
+  out.numpyMs = py.status === 0 ? Number(py.stdout.trim()) : null;
+  out.numpyNote = py.status === 0 ? "numpy.linalg.lstsq, 1 thread" : `numpy unavailable: ${(py.stderr || py.error?.message || "").toString().split("\n").slice(-2).join(" ")}`;
+  out.peakRssMB = process.resourceUsage().maxRSS / 1024;
+  out.inputMB = inputBytes / 2 ** 20;
+  out.keep = (engine.keep as LeastSquaresFit).rank; // keep results alive
+  writeFileSync(process.env.BENCH_OUT ?? join(dir, "colspace-bench.json"), JSON.stringify(out));
+}, 3_600_000);

@@ -1,0 +1,48 @@
+// `npm run bench [-- --json] [-- --sizes 1000x5,10000x10]`: runs bench/perf.test.ts once per size,
+// each in its own process (so peak memory is per size), and prints a table or one JSON object.
+import { spawnSync } from "node:child_process";
+import { readFileSync, rmSync } from "node:fs";
+import { tmpdir, cpus } from "node:os";
+import { join, resolve } from "node:path";
+
+const args = process.argv.slice(2);
+const json = args.includes("--json");
+const si = args.indexOf("--sizes");
+const sizes = (si >= 0 ? args[si + 1] : "1000x5,10000x10,100000x20,1000000x10").split(",").map((s) => s.split("x").map(Number));
+const root = resolve(new URL("..", import.meta.url).pathname);
+const results = [];
+for (const [rows, cols] of sizes) {
+  const out = join(tmpdir(), `colspace-bench-${rows}x${cols}.json`);
+  rmSync(out, { force: true });
+  const r = spawnSync(process.execPath, [join(root, "node_modules/vitest/vitest.mjs"), "run", "--config", "vitest.bench.config.ts", "--silent"], {
+    cwd: root,
+    env: { ...process.env, BENCH_ROWS: String(rows), BENCH_COLS: String(cols), BENCH_OUT: out, NODE_OPTIONS: "--max-old-space-size=16384" },
+    encoding: "utf8",
+  });
+  if (r.status !== 0) {
+    console.error(r.stdout, r.stderr);
+    process.exit(1);
+  }
+  const d = JSON.parse(readFileSync(out, "utf8"));
+  d.ratios = {
+    engineVsMlMatrix: d.mlMatrixMs / d.engineMs,
+    engineVsNumpy: d.numpyMs ? d.engineMs / d.numpyMs : null,
+    fiveVsOne: d.fiveMs / d.coefMs,
+    peakMemoryVsInput: d.peakRssMB / d.inputMB,
+  };
+  results.push(d);
+  if (!json) process.stderr.write(`done ${rows}×${cols}\n`);
+}
+const machine = { cpu: cpus()[0]?.model, cores: cpus().length, node: process.version };
+if (json) console.log(JSON.stringify({ machine, results }, null, 2));
+else {
+  const f = (v, d = 1) => (v === null || v === undefined ? "n/a" : Number(v).toFixed(d));
+  console.log(`\nColspace benchmark (${machine.cpu}, ${machine.cores} cores, Node ${machine.node}); median ms\n`);
+  console.log("size           engine fit   COEF   5 functions   ml-matrix   numpy   | ml-matrix/engine  engine/numpy  five/one  peak RSS/input");
+  for (const d of results)
+    console.log(
+      `${(d.rows + "×" + d.cols).padEnd(14)} ${f(d.engineMs).padStart(10)} ${f(d.coefMs).padStart(6)} ${f(d.fiveMs).padStart(13)} ${f(d.mlMatrixMs).padStart(11)} ${f(d.numpyMs).padStart(7)}   | ${f(d.ratios.engineVsMlMatrix, 2).padStart(16)} ${f(d.ratios.engineVsNumpy, 2).padStart(13)} ${f(d.ratios.fiveVsOne, 2).padStart(9)} ${f(d.ratios.peakMemoryVsInput, 1).padStart(15)}`,
+    );
+  console.log("\nengine fit = factorization + refinement + coefficients + residuals + covariance; numpy = lstsq (coefficients only, 1 thread).");
+  console.log("peak RSS is the whole benchmark process (data, 2-D arrays for the functions, ml-matrix copy), so it overstates the engine alone.");
+}
