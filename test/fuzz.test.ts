@@ -43,7 +43,7 @@ function range(rows: number, cols: number, hostile: boolean): fc.Arbitrary<unkno
     .map(([r, scales]) => r.map((row) => row.map((v, j) => (typeof v === "number" ? v * scales[j]! : v))));
   return fc.oneof(
     { weight: hostile ? 16 : 80, arbitrary: rect },
-    { weight: 1, arbitrary: fc.constantFrom([], [[]]) },
+    { weight: 1, arbitrary: fc.constantFrom<unknown[][]>([], [[]]) },
     { weight: 1, arbitrary: fc.array(fc.array(cell, { maxLength: cols + 1 }), { minLength: 1, maxLength: rows + 1 }) },
     { weight: 1, arbitrary: cell.map((c) => [[c]]) },
   );

@@ -11,7 +11,7 @@
  */
 import { LsqError } from "./errors";
 import { ddMul, ddSqrt, type DD } from "./dd";
-import { exponentOf, scaleByPow2 } from "./scale";
+import { exponentOf, pow2, scaleByPow2 } from "./scale";
 
 /** What the user asks for. All arrays are read, never written. */
 export interface ModelSpec {
@@ -136,9 +136,10 @@ export function designPreExp(shape: ModelShape, intercept: boolean, preExp: Int3
 }
 
 /**
- * Fill design column j for the given input rows: out[o + t] (+ outLo) for t over `rows`.
- * `sw` holds √w as dd pairs for the same rows (null: unweighted). Returns true when the
- * column has nonzero low parts.
+ * Fill design column j for the given input rows: outHi[o + t] (+ outLo) for t over `rows`.
+ * `sw` holds √w as dd pairs for the same rows (null: unweighted). `outLo` may be null only when
+ * the column is exactly representable (unweighted, degree 1). Returns true when the column has
+ * nonzero low parts.
  */
 export function fillDesignColumn(
   spec: ModelSpec,
@@ -149,12 +150,27 @@ export function fillDesignColumn(
   swLo: Float64Array | null,
   preExp: Int32Array,
   outHi: Float64Array,
-  outLo: Float64Array,
+  outLo: Float64Array | null,
   o: number,
 ): boolean {
   const { m, degree } = shape;
   const n = rows.length;
   const jj = spec.intercept ? j - 1 : j;
+  const x = spec.x;
+  if (!swHi && (jj < 0 || degree < 2)) {
+    // Exact fast path: the intercept, or a column of x scaled by a power of two.
+    if (jj < 0) outHi.fill(1, o, o + n);
+    else {
+      const e = -preExp[jj]!;
+      const s1 = pow2(Math.max(-1000, Math.min(1000, e)));
+      const s2 = pow2(e - Math.max(-1000, Math.min(1000, e)));
+      const off = jj * m;
+      for (let t = 0; t < n; t++) outHi[o + t] = x[off + rows[t]!]! * s1 * s2;
+    }
+    if (outLo) outLo.fill(0, o, o + n);
+    return false;
+  }
+  if (!outLo) throw new Error("fillDesignColumn: a low-part array is needed for weighted or polynomial columns");
   const tmp: DD = { hi: 0, lo: 0 };
   let anyLo = false;
   for (let t = 0; t < n; t++) {
@@ -164,14 +180,14 @@ export function fillDesignColumn(
     if (jj < 0) hi = 1;
     else if (degree >= 2) {
       // x^(jj+1) in double-double by repeated multiplication.
-      const xi = scaleByPow2(spec.x[i]!, -preExp[0]!);
+      const xi = scaleByPow2(x[i]!, -preExp[0]!);
       hi = xi;
       for (let e = 1; e <= jj; e++) {
         ddMul(hi, lo, xi, 0, tmp);
         hi = tmp.hi;
         lo = tmp.lo;
       }
-    } else hi = scaleByPow2(spec.x[jj * m + i]!, -preExp[jj]!);
+    } else hi = scaleByPow2(x[jj * m + i]!, -preExp[jj]!);
     if (swHi) {
       ddMul(hi, lo, swHi[t]!, swLo![t]!, tmp);
       hi = tmp.hi;
@@ -182,6 +198,16 @@ export function fillDesignColumn(
     if (lo !== 0) anyLo = true;
   }
   return anyLo;
+}
+
+/** a[off .. off+n) ← a · 2^e, exactly (two multiplications when |e| > 1000). */
+export function scaleArrayByPow2(a: Float64Array, off: number, n: number, e: number): void {
+  if (e === 0) return;
+  const c = Math.max(-1000, Math.min(1000, e));
+  const s1 = pow2(c);
+  const s2 = pow2(e - c);
+  if (s2 === 1) for (let t = off; t < off + n; t++) a[t]! *= s1;
+  else for (let t = off; t < off + n; t++) a[t] = a[t]! * s1 * s2;
 }
 
 /** √w as dd pairs for the given rows (null when unweighted). */

@@ -24,13 +24,14 @@ import {
   columnExponents,
   designPreExp,
   fillDesignColumn,
+  scaleArrayByPow2,
   sqrtWeights,
   validateSpec,
   type ModelShape,
   type ModelSpec,
 } from "./design";
-import { HouseholderQR, nrm2 } from "./qr";
-import { refineAugmented, residualUpdate, type DDMatrix } from "./refine";
+import { EPS, HouseholderQR, nrm2 } from "./qr";
+import { ddGram, refineAugmented, residualUpdate, type DDMatrix } from "./refine";
 import { exponentOf, scaleByPow2 } from "./scale";
 import { twoProd, twoSum, type DD } from "./dd";
 import { fUpper, tQuantile, tTwoSided } from "./distributions";
@@ -156,18 +157,18 @@ export class LeastSquaresFit {
     this.sw = sqrtWeights(spec.weights, used);
     const sw = this.sw;
 
-    // Design (weighted, pre-scaled), then exact equilibration of each column.
+    // Design (weighted, pre-scaled), then exact equilibration of each column. Low parts exist
+    // only for weighted or polynomial designs.
     const hi = new Float64Array(n * p);
-    const lo = new Float64Array(n * p);
+    const needLo = !!sw || shape.degree >= 2;
+    const lo = needLo ? new Float64Array(n * p) : null;
     let anyLo = false;
     const cs = new Int32Array(p);
     for (let j = 0; j < p; j++) {
       if (fillDesignColumn(spec, shape, j, used, sw?.hi ?? null, sw?.lo ?? null, this.preExp, hi, lo, j * n)) anyLo = true;
       const e2 = -exponentOf(nrm2(hi, j * n, n));
-      for (let t = j * n, end = t + n; t < end; t++) {
-        hi[t] = scaleByPow2(hi[t]!, e2);
-        lo[t] = scaleByPow2(lo[t]!, e2);
-      }
+      scaleArrayByPow2(hi, j * n, n, e2);
+      if (lo) scaleArrayByPow2(lo, j * n, n, e2);
       cs[j] = e2 - designPreExp(shape, spec.intercept, this.preExp, j);
       checkFinite(hi, lo, j * n, n, j, spec, shape);
     }
@@ -202,13 +203,17 @@ export class LeastSquaresFit {
     // Residual: the refined residual block r̃ of the augmented system, which converges to the
     // exact residual whatever the rounding of the coefficients (ỹ − X̃·fl(b̃) would carry that
     // rounding, ~ε‖X̃‖‖b̃‖). One exception: when ỹ − X̃ b̃ is exactly zero in compensated
-    // arithmetic the fit is exact and the residual is reported as exactly zero.
-    const s = Float64Array.from(yHi);
-    const comp = yLo ? Float64Array.from(yLo) : new Float64Array(n);
-    for (let k = 0; k < rank; k++) residualUpdate(this.design, this.qr.kept[k]!, -this.coefScaled[k]!, s, comp, n);
-    let exact = true;
-    for (let t = 0; t < n && exact; t++) if (s[t]! + comp[t]! !== 0) exact = false;
-    const r = exact ? new Float64Array(n) : sol.r;
+    // arithmetic the fit is exact and the residual is reported as exactly zero (checked only
+    // when the refined residual is already at rounding level).
+    let r = sol.r;
+    if (sumSquares(r, 0, n) <= (64 * EPS) ** 2 * sumSquares(yHi, 0, n)) {
+      const s = Float64Array.from(yHi);
+      const comp = yLo ? Float64Array.from(yLo) : new Float64Array(n);
+      for (let k = 0; k < rank; k++) residualUpdate(this.design, this.qr.kept[k]!, -this.coefScaled[k]!, s, comp, n);
+      let exact = true;
+      for (let t = 0; t < n && exact; t++) if (s[t]! + comp[t]! !== 0) exact = false;
+      if (exact) r = new Float64Array(n);
+    }
     this.residScaled = r;
     this.rssScaled = sumSquares(r, 0, n);
   }
@@ -321,12 +326,10 @@ export class LeastSquaresFit {
       for (let k = 0; k < kept.length; k++) {
         const j = kept[k]!;
         fillDesignColumn(this.spec, this.shape, j, idx, null, null, this.preExp, colHi, colLo, 0);
-        const e = this.cs[j]! + designPreExp(this.shape, this.spec.intercept, this.preExp, j);
         // colHi holds true·2^(−pre); bring it to true·2^cs.
-        for (let t = 0; t < nc; t++) {
-          colHi[t] = scaleByPow2(colHi[t]!, e);
-          colLo[t] = scaleByPow2(colLo[t]!, e);
-        }
+        const e = this.cs[j]! + designPreExp(this.shape, this.spec.intercept, this.preExp, j);
+        scaleArrayByPow2(colHi, 0, nc, e);
+        scaleArrayByPow2(colLo, 0, nc, e);
         residualUpdate(col, 0, this.coefScaled[k]!, s, comp, nc);
       }
       const tmp: DD = { hi: 0, lo: 0 };
@@ -345,16 +348,30 @@ export class LeastSquaresFit {
 
   /**
    * Refined unscaled covariance of the scaled kept design, C̃ = (X̃_Kᵀ X̃_K)⁻¹, rank × rank
-   * column-major. Each column solves the augmented system with right-hand side [0; e_k].
+   * column-major. Column k solves the augmented system with right-hand side [0; e_k].
+   *
+   * Keeping the residual block exactly at r = −X̃c (in double-double) reduces that refinement to
+   * the k-space iteration c ← c + R⁻¹R⁻ᵀ(e_k − G c) with the Gram matrix G = X̃ᵀX̃ formed once in
+   * double-double; this is used while the condition number κ ≤ 1e7, where its attainable accuracy
+   * (about κ²ε² relative) is below one unit in the last place. Above that the full augmented
+   * refinement over all rows is used, column by column (slower, accuracy about κε²).
    */
   scaledCovariance(): Float64Array {
     if (this.covCache) return this.covCache;
     const r = this.rank;
-    const c = new Float64Array(r * r);
-    for (let k = 0; k < r; k++) c[k * r + k] = 1;
-    const sol = refineAugmented(this.qr, this.design, r, r, null, null, c);
-    const out = sol.x;
-    for (let t = 0; t < out.length; t++) out[t] = -out[t]!;
+    let out: Float64Array;
+    if (r > 0 && this.condition().value <= 1e7) {
+      const res = refineCovarianceGram(this.qr, ddGram(this.design, this.qr.kept, r), r);
+      out = res.c;
+      this.covConverged = res.converged;
+    } else {
+      const c = new Float64Array(r * r);
+      for (let k = 0; k < r; k++) c[k * r + k] = 1;
+      const sol = refineAugmented(this.qr, this.design, r, r, null, null, c);
+      out = sol.x;
+      for (let t = 0; t < out.length; t++) out[t] = -out[t]!;
+      this.covConverged = sol.converged.every(Boolean);
+    }
     // Symmetrize (the two triangles agree to rounding after refinement).
     for (let i = 0; i < r; i++)
       for (let j = i + 1; j < r; j++) {
@@ -362,7 +379,6 @@ export class LeastSquaresFit {
         out[i * r + j] = v;
         out[j * r + i] = v;
       }
-    this.covConverged = sol.converged.every(Boolean);
     this.covCache = out;
     return out;
   }
@@ -746,9 +762,9 @@ export function sumSquares(v: Float64Array, off: number, n: number): number {
   return s + c;
 }
 
-function checkFinite(hi: Float64Array, lo: Float64Array, off: number, n: number, j: number, spec: ModelSpec, shape: ModelShape): void {
+function checkFinite(hi: Float64Array, lo: Float64Array | null, off: number, n: number, j: number, spec: ModelSpec, shape: ModelShape): void {
   for (let t = off; t < off + n; t++) {
-    if (!Number.isFinite(hi[t]!) || !Number.isFinite(lo[t]!)) {
+    if (!Number.isFinite(hi[t]!) || (lo !== null && !Number.isFinite(lo[t]!))) {
       const what = shape.degree >= 2 ? `the power ${j + (spec.intercept ? 0 : 1)} of x` : `column ${j + (spec.intercept ? 0 : 1)} of x`;
       throw new LsqError("range", `${what} spans too wide a range of magnitudes to represent; rescale x (for example, change units)`);
     }
@@ -756,3 +772,54 @@ function checkFinite(hi: Float64Array, lo: Float64Array, off: number, n: number,
 }
 
 export type { NotAvailable };
+
+/**
+ * Refine C = G⁻¹ (G given as a double-double) with the triangular factor R (RᵀR ≈ G):
+ * C ← C + R⁻¹R⁻ᵀ(I − G C), residuals in compensated arithmetic, until the correction is below
+ * ε‖C‖ or stops halving.
+ */
+function refineCovarianceGram(qr: HouseholderQR, G: { hi: Float64Array; lo: Float64Array }, r: number): { c: Float64Array; converged: boolean } {
+  const c = new Float64Array(r * r);
+  const col = new Float64Array(r);
+  let converged = true;
+  const tmp: DD = { hi: 0, lo: 0 };
+  for (let t = 0; t < r; t++) {
+    const o = t * r;
+    let prev = Infinity;
+    let done = false;
+    for (let step = 0; step < 10; step++) {
+      // residual e_t − G c_t
+      for (let i = 0; i < r; i++) {
+        let s = i === t ? 1 : 0;
+        let e = 0;
+        for (let k = 0; k < r; k++) {
+          const ck = c[o + k]!;
+          twoProd(G.hi[k * r + i]!, -ck, tmp);
+          const sn = s + tmp.hi;
+          const bb = sn - s;
+          e += s - (sn - bb) + (tmp.hi - bb) + tmp.lo - G.lo[k * r + i]! * ck;
+          s = sn;
+        }
+        col[i] = s + e;
+      }
+      qr.solveRt(r, col);
+      qr.solveR(r, col);
+      let nd = 0;
+      let nc = 0;
+      for (let i = 0; i < r; i++) {
+        nd = Math.max(nd, Math.abs(col[i]!));
+        nc = Math.max(nc, Math.abs(c[o + i]! + col[i]!));
+      }
+      if (step > 0 && !(nd < prev)) break;
+      for (let i = 0; i < r; i++) c[o + i]! += col[i]!;
+      if (nd <= EPS * nc) {
+        done = true;
+        break;
+      }
+      if (step > 0 && nd > 0.5 * prev) break;
+      prev = nd;
+    }
+    if (!done) converged = false;
+  }
+  return { c, converged };
+}

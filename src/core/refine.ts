@@ -83,23 +83,23 @@ export function refineAugmented(
     const ro = t * m;
     let prev = Infinity;
     for (let step = 0; step < maxSteps; step++) {
-      // f = b − r − A x  (compensated)
-      for (let i = 0; i < m; i++) {
-        const bh = bHi ? bHi[ro + i]! : 0;
-        const ri = r[ro + i]!;
-        const s = bh - ri;
-        const bb = s - bh;
-        f[i] = s;
-        comp[i] = bh - (s - bb) + (-ri - bb) + (bLo ? bLo[ro + i]! : 0);
+      if (step === 0) {
+        // r = 0, x = 0: the residuals are the right-hand sides themselves.
+        for (let i = 0; i < m; i++) f[i] = bHi ? bHi[ro + i]! + (bLo ? bLo[ro + i]! : 0) : 0;
+        for (let k = 0; k < nk; k++) g[k] = c ? c[t * nk + k]! : 0;
+      } else {
+        // f = b − r − A x and g = c − Aᵀ r, both compensated, in one pass over A.
+        for (let i = 0; i < m; i++) {
+          const bh = bHi ? bHi[ro + i]! : 0;
+          const ri = r[ro + i]!;
+          const s = bh - ri;
+          const bb = s - bh;
+          f[i] = s;
+          comp[i] = bh - (s - bb) + (-ri - bb) + (bLo ? bLo[ro + i]! : 0);
+        }
+        for (let k = 0; k < nk; k++) g[k] = fusedColumnPass(A, cols[k]!, -x[xo + k]!, f, comp, c ? c[t * nk + k]! : 0, r, ro, m);
+        for (let i = 0; i < m; i++) f[i] = f[i]! + comp[i]!;
       }
-      for (let k = 0; k < nk; k++) {
-        const xk = x[xo + k]!;
-        if (xk === 0) continue;
-        residualUpdate(A, cols[k]!, -xk, f, comp, m);
-      }
-      for (let i = 0; i < m; i++) f[i] = f[i]! + comp[i]!;
-      // g = c − Aᵀ r
-      for (let k = 0; k < nk; k++) g[k] = dotResidual(A, cols[k]!, c ? c[t * nk + k]! : 0, r, ro, m);
       // corrections
       qr.solveRt(nk, g);
       qr.applyQt(nk, f);
@@ -126,6 +126,54 @@ export function refineAugmented(
     }
   }
   return { x, r, steps, converged };
+}
+
+/**
+ * One pass over column `col` of A doing both halves of a refinement residual:
+ * (s, comp) += α · A(:, col) as in residualUpdate, and returns c0 − A(:, col)ᵀ v[vo ..] as in
+ * dotResidual. Each entry of A is split once for both products.
+ */
+export function fusedColumnPass(A: DDMatrix, col: number, alpha: number, s: Float64Array, comp: Float64Array, c0: number, v: Float64Array, vo: number, m: number): number {
+  const hi = A.hi;
+  const lo = A.lo;
+  const off = col * m;
+  let t = SPLITTER * alpha;
+  const xh = t - (t - alpha);
+  const xl = alpha - xh;
+  let ds = c0;
+  let de = 0;
+  for (let i = 0; i < m; i++) {
+    const a = hi[off + i]!;
+    t = SPLITTER * a;
+    const ah = t - (t - a);
+    const al = a - ah;
+    // (s, comp) += a·α
+    const p = a * alpha;
+    const pe = ah * xh - p + ah * xl + al * xh + al * xl;
+    const si = s[i]!;
+    const sn = si + p;
+    const bb = sn - si;
+    s[i] = sn;
+    // ds −= a·v_i
+    const b = -v[vo + i]!;
+    t = SPLITTER * b;
+    const bh = t - (t - b);
+    const bl = b - bh;
+    const q = a * b;
+    const qe = ah * bh - q + ah * bl + al * bh + al * bl;
+    const dn = ds + q;
+    const cc = dn - ds;
+    if (lo) {
+      const l = lo[off + i]!;
+      comp[i]! += si - (sn - bb) + (p - bb) + pe + l * alpha;
+      de += ds - (dn - cc) + (q - cc) + qe + l * b;
+    } else {
+      comp[i]! += si - (sn - bb) + (p - bb) + pe;
+      de += ds - (dn - cc) + (q - cc) + qe;
+    }
+    ds = dn;
+  }
+  return ds + de;
 }
 
 /**
@@ -178,4 +226,74 @@ export function dotResidual(A: DDMatrix, col: number, c0: number, v: Float64Arra
     s = sn;
   }
   return s + e;
+}
+
+/**
+ * The Gram matrix G = Aᵀ A of the columns `cols` of the exact design A = Ahi + Alo, as a
+ * double-double (hi + lo, each nk × nk, symmetric, column-major). Every product of high parts is
+ * exact (TwoProduct) and summed with TwoSum; cross terms with the low parts are added in working
+ * precision (they are 2^-53 smaller). Rows are processed in blocks whose Dekker halves are split
+ * once into small buffers, so each entry is split once per block rather than once per pair.
+ */
+export function ddGram(A: DDMatrix, cols: Int32Array, nk: number): { hi: Float64Array; lo: Float64Array } {
+  const m = A.m;
+  const { hi, lo } = A;
+  const sHi = new Float64Array(nk * nk);
+  const sLo = new Float64Array(nk * nk);
+  const B = 256;
+  const h = new Float64Array(B * nk); // high halves of the block
+  const l = new Float64Array(B * nk); // low halves
+  const v = new Float64Array(B * nk); // values
+  for (let i0 = 0; i0 < m; i0 += B) {
+    const nb = Math.min(B, m - i0);
+    for (let k = 0; k < nk; k++) {
+      const off = cols[k]! * m + i0;
+      const o = k * B;
+      for (let i = 0; i < nb; i++) {
+        const a = hi[off + i]!;
+        const t = SPLITTER * a;
+        const ah = t - (t - a);
+        v[o + i] = a;
+        h[o + i] = ah;
+        l[o + i] = a - ah;
+      }
+    }
+    for (let b = 0; b < nk; b++) {
+      const ob = b * B;
+      const offB = cols[b]! * m + i0;
+      for (let a = 0; a <= b; a++) {
+        const oa = a * B;
+        const offA = cols[a]! * m + i0;
+        let s = sHi[b * nk + a]!;
+        let e = sLo[b * nk + a]!;
+        for (let i = 0; i < nb; i++) {
+          const x = v[oa + i]!;
+          const y = v[ob + i]!;
+          const p = x * y;
+          const xh = h[oa + i]!;
+          const xl = l[oa + i]!;
+          const yh = h[ob + i]!;
+          const yl = l[ob + i]!;
+          const pe = xh * yh - p + xh * yl + xl * yh + xl * yl;
+          const sn = s + p;
+          const bb = sn - s;
+          e += s - (sn - bb) + (p - bb) + pe;
+          s = sn;
+        }
+        if (lo) for (let i = 0; i < nb; i++) e += v[oa + i]! * lo[offB + i]! + lo[offA + i]! * v[ob + i]!;
+        sHi[b * nk + a] = s;
+        sLo[b * nk + a] = e;
+      }
+    }
+  }
+  for (let b = 0; b < nk; b++)
+    for (let a = 0; a <= b; a++) {
+      const s = sHi[b * nk + a]!;
+      const e = sLo[b * nk + a]!;
+      const x = s + e;
+      const y = e - (x - s);
+      sHi[b * nk + a] = sHi[a * nk + b] = x;
+      sLo[b * nk + a] = sLo[a * nk + b] = y;
+    }
+  return { hi: sHi, lo: sLo };
 }
