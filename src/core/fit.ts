@@ -812,7 +812,7 @@ function refineCovarianceGram(qr: HouseholderQR, G: { hi: Float64Array; lo: Floa
       }
       if (step > 0 && !(nd < prev)) break;
       for (let i = 0; i < r; i++) c[o + i]! += col[i]!;
-      if (nd <= EPS * nc) {
+      if (nd <= EPS * nc || (step > 0 && (nd * nd) / prev <= 0.5 * EPS * nc)) {
         done = true;
         break;
       }

@@ -231,9 +231,20 @@ function applyReflectorTo(a: Float64Array, vOff: number, q: number, m: number, t
   const v0 = vOff + q;
   const c0 = cOff + q;
   const n = m - q;
-  let s = c[c0]!;
-  for (let i = 1; i < n; i++) s += a[v0 + i]! * c[c0 + i]!;
-  s *= tau;
+  // s = vᵀc with v[0] = 1; four independent partial sums keep the adder pipeline busy.
+  let s0 = c[c0]!;
+  let s1 = 0;
+  let s2 = 0;
+  let s3 = 0;
+  let i = 1;
+  for (; i + 3 < n; i += 4) {
+    s0 += a[v0 + i]! * c[c0 + i]!;
+    s1 += a[v0 + i + 1]! * c[c0 + i + 1]!;
+    s2 += a[v0 + i + 2]! * c[c0 + i + 2]!;
+    s3 += a[v0 + i + 3]! * c[c0 + i + 3]!;
+  }
+  for (; i < n; i++) s0 += a[v0 + i]! * c[c0 + i]!;
+  const s = tau * (s0 + s1 + (s2 + s3));
   c[c0]! -= s;
-  for (let i = 1; i < n; i++) c[c0 + i]! -= s * a[v0 + i]!;
+  for (i = 1; i < n; i++) c[c0 + i]! -= s * a[v0 + i]!;
 }

@@ -12,7 +12,7 @@
  * Each step computes the residuals of both block rows with error-free transformations
  * (TwoProduct by Dekker splitting, TwoSum; compensated in the style of Ogita–Rump–Oishi's
  * Dot2, i.e. as if in twice the working precision), then solves for the corrections with the
- * existing QR factor:
+ * existing QR factor (the stopping rule is described at the end of the loop):
  *
  *     f = b − r − A x,  g = c − Aᵀ r
  *     h = R⁻ᵀ g,  d = Qᵀ f,  δx = R⁻¹ (d₁ − h),  δr = Q [h; d₂]
@@ -117,7 +117,9 @@ export function refineAugmented(
       for (let k = 0; k < nk; k++) x[xo + k]! += dx[k]!;
       for (let i = 0; i < m; i++) r[ro + i]! += f[i]!;
       steps[t] = step + 1;
-      if (nd <= EPS * nx) {
+      // Converged when this correction is below ε‖x‖, or when the next one, predicted from the
+      // observed rate of convergence (nd / prev), would be below half of that.
+      if (nd <= EPS * nx || (step > 0 && (nd * nd) / prev <= 0.5 * EPS * nx)) {
         converged[t] = true;
         break;
       }
@@ -264,20 +266,53 @@ export function ddGram(A: DDMatrix, cols: Int32Array, nk: number): { hi: Float64
       for (let a = 0; a <= b; a++) {
         const oa = a * B;
         const offA = cols[a]! * m + i0;
+        // Two independent compensated sums (even and odd rows) halve the dependency chain.
         let s = sHi[b * nk + a]!;
         let e = sLo[b * nk + a]!;
-        for (let i = 0; i < nb; i++) {
+        let s2 = 0;
+        let e2 = 0;
+        let i = 0;
+        for (; i + 1 < nb; i += 2) {
+          let x = v[oa + i]!;
+          let y = v[ob + i]!;
+          let p = x * y;
+          let xh = h[oa + i]!;
+          let xl = l[oa + i]!;
+          let yh = h[ob + i]!;
+          let yl = l[ob + i]!;
+          let pe = xh * yh - p + xh * yl + xl * yh + xl * yl;
+          let sn = s + p;
+          let bb = sn - s;
+          e += s - (sn - bb) + (p - bb) + pe;
+          s = sn;
+          x = v[oa + i + 1]!;
+          y = v[ob + i + 1]!;
+          p = x * y;
+          xh = h[oa + i + 1]!;
+          xl = l[oa + i + 1]!;
+          yh = h[ob + i + 1]!;
+          yl = l[ob + i + 1]!;
+          pe = xh * yh - p + xh * yl + xl * yh + xl * yl;
+          sn = s2 + p;
+          bb = sn - s2;
+          e2 += s2 - (sn - bb) + (p - bb) + pe;
+          s2 = sn;
+        }
+        for (; i < nb; i++) {
           const x = v[oa + i]!;
           const y = v[ob + i]!;
           const p = x * y;
-          const xh = h[oa + i]!;
-          const xl = l[oa + i]!;
-          const yh = h[ob + i]!;
-          const yl = l[ob + i]!;
-          const pe = xh * yh - p + xh * yl + xl * yh + xl * yl;
+          const pe = h[oa + i]! * h[ob + i]! - p + h[oa + i]! * l[ob + i]! + l[oa + i]! * h[ob + i]! + l[oa + i]! * l[ob + i]!;
           const sn = s + p;
           const bb = sn - s;
           e += s - (sn - bb) + (p - bb) + pe;
+          s = sn;
+        }
+        {
+          // merge the odd-row sum into the even-row sum exactly (TwoSum)
+          const sn = s + s2;
+          const bb = sn - s;
+          e += s - (sn - bb) + (s2 - bb) + e2;
           s = sn;
         }
         if (lo) for (let i = 0; i < nb; i++) e += v[oa + i]! * lo[offB + i]! + lo[offA + i]! * v[ob + i]!;
