@@ -77,20 +77,16 @@ function keySize(k: KeyParts): number {
 /** FNV-1a over the 32-bit words of every input, plus lengths and flags. */
 export function hashKey(k: KeyParts): number {
   let h = 0x811c9dc5;
-  const mix = (x: number): void => {
-    h ^= x;
-    h = Math.imul(h, 0x01000193);
-  };
   for (const a of k.numbers) {
-    mix(a.length);
+    h = Math.imul(h ^ a.length, 0x01000193);
     const w = new Uint32Array(a.buffer, a.byteOffset, a.length * 2);
-    for (let i = 0; i < w.length; i++) mix(w[i]!);
+    for (let i = 0; i < w.length; i++) h = Math.imul(h ^ w[i]!, 0x01000193);
   }
   for (const b of k.bytes) {
-    mix(b.length);
-    for (let i = 0; i < b.length; i++) mix(b[i]!);
+    h = Math.imul(h ^ b.length, 0x01000193);
+    for (let i = 0; i < b.length; i++) h = Math.imul(h ^ b[i]!, 0x01000193);
   }
-  for (let i = 0; i < k.flags.length; i++) mix(k.flags.charCodeAt(i));
+  for (let i = 0; i < k.flags.length; i++) h = Math.imul(h ^ k.flags.charCodeAt(i), 0x01000193);
   return h >>> 0;
 }
 

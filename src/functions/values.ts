@@ -46,34 +46,38 @@ export function shapeOf(v: unknown, name: string): { rows: number; cols: number 
   return { rows, cols };
 }
 
-/** Classify one cell; returns the number (NaN if missing) and writes its kind. */
-function cellValue(c: unknown): [number, CellKind] {
-  if (typeof c === "number") return Number.isNaN(c) ? [NaN, CellKind.NotANumber] : [c, CellKind.Number];
-  if (c === null || c === undefined || c === "") return [NaN, CellKind.Empty];
-  if (typeof c === "string") return [NaN, CellKind.Text];
-  if (typeof c === "boolean") return [NaN, CellKind.Boolean];
-  return [NaN, CellKind.Error];
-}
-
 /**
- * Read a rectangular range into column-major storage in one pass (no per-row allocation).
- * `transpose` reads the range as its transpose (predictors laid out in rows).
+ * Read a rectangular range into column-major storage in one pass, with no allocation per row or
+ * per cell. `transpose` reads the range as its transpose (predictors laid out in rows).
  */
 export function readBlock(v: unknown, name: string, transpose = false): Block {
   const { rows: r0, cols: c0 } = shapeOf(v, name);
   const rows = transpose ? c0 : r0;
   const cols = transpose ? r0 : c0;
   const data = new Float64Array(rows * cols);
-  const kinds = new Uint8Array(rows * cols);
+  const kinds = new Uint8Array(rows * cols); // CellKind.Number = 0
   const arr = v as unknown[][];
   for (let i = 0; i < r0; i++) {
     const row = arr[i]!;
     for (let j = 0; j < c0; j++) {
-      const [val, kind] = cellValue(row[j]);
+      const c = row[j];
       // Element (i, j) of the range is element (i, j) of the block, or (j, i) when transposed.
       const at = transpose ? i * rows + j : j * rows + i;
-      data[at] = val;
-      kinds[at] = kind;
+      if (typeof c === "number" && c === c) {
+        data[at] = c;
+        continue;
+      }
+      data[at] = NaN;
+      kinds[at] =
+        typeof c === "number"
+          ? CellKind.NotANumber
+          : c === null || c === undefined || c === ""
+            ? CellKind.Empty
+            : typeof c === "string"
+              ? CellKind.Text
+              : typeof c === "boolean"
+                ? CellKind.Boolean
+                : CellKind.Error;
     }
   }
   return { rows, cols, data, kinds };

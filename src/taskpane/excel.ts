@@ -88,7 +88,9 @@ export function startExcel(app: HTMLElement): void {
     try {
       const model = getModel(y, x, intercept, weights, degree);
       const header = await headerLabels(rec);
-      const labels = defaultLabels(model.fit.spec.intercept, model.fit.shape.k, model.fit.shape.degree, header ?? undefined);
+      // Header cells above x name the columns; without a header row, "column 3 of x".
+      const names = header ?? Array.from({ length: model.fit.shape.k }, (_, j) => (model.fit.shape.degree >= 2 ? "x" : `column ${j + 1} of x`));
+      const labels = defaultLabels(model.fit.spec.intercept, model.fit.shape.k, model.fit.shape.degree, names);
       const yAddr = rec.parameterAddresses[0] ? splitAddress(rec.parameterAddresses[0]) : null;
       const row0 = yAddr ? firstRow(yAddr.local) : 1;
       status.textContent = `LSQ.${rec.fn} in ${rec.address}`;
