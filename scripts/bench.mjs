@@ -28,7 +28,7 @@ for (const [rows, cols] of sizes) {
     engineVsMlMatrix: d.mlMatrixMs / d.engineMs,
     engineVsNumpy: d.numpyMs ? d.engineMs / d.numpyMs : null,
     fiveVsOne: d.fiveMs / d.coefMs,
-    peakMemoryVsInput: d.peakRssMB / d.inputMB,
+    enginePeakMemoryVsInput: d.enginePeakMB / d.inputMB,
   };
   results.push(d);
   if (!json) process.stderr.write(`done ${rows}×${cols}\n`);
@@ -38,11 +38,11 @@ if (json) console.log(JSON.stringify({ machine, results }, null, 2));
 else {
   const f = (v, d = 1) => (v === null || v === undefined ? "n/a" : Number(v).toFixed(d));
   console.log(`\nColspace benchmark (${machine.cpu}, ${machine.cores} cores, Node ${machine.node}); median ms\n`);
-  console.log("size           engine fit   COEF   5 functions   ml-matrix   numpy   | ml-matrix/engine  engine/numpy  five/one  peak RSS/input");
+  console.log("size           engine fit   COEF   5 functions   ml-matrix   numpy   | ml-matrix/engine  engine/numpy  five/one  engine memory/input");
   for (const d of results)
     console.log(
-      `${(d.rows + "×" + d.cols).padEnd(14)} ${f(d.engineMs).padStart(10)} ${f(d.coefMs).padStart(6)} ${f(d.fiveMs).padStart(13)} ${f(d.mlMatrixMs).padStart(11)} ${f(d.numpyMs).padStart(7)}   | ${f(d.ratios.engineVsMlMatrix, 2).padStart(16)} ${f(d.ratios.engineVsNumpy, 2).padStart(13)} ${f(d.ratios.fiveVsOne, 2).padStart(9)} ${f(d.ratios.peakMemoryVsInput, 1).padStart(15)}`,
+      `${(d.rows + "×" + d.cols).padEnd(14)} ${f(d.engineMs).padStart(10)} ${f(d.coefMs).padStart(6)} ${f(d.fiveMs).padStart(13)} ${f(d.mlMatrixMs).padStart(11)} ${f(d.numpyMs).padStart(7)}   | ${f(d.ratios.engineVsMlMatrix, 2).padStart(16)} ${f(d.ratios.engineVsNumpy, 2).padStart(13)} ${f(d.ratios.fiveVsOne, 2).padStart(9)} ${f(d.ratios.enginePeakMemoryVsInput, 1).padStart(20)}`,
     );
   console.log("\nengine fit = factorization + refinement + coefficients + residuals + covariance; numpy = lstsq (coefficients only, 1 thread).");
-  console.log("peak RSS is the whole benchmark process (data, 2-D arrays for the functions, ml-matrix copy), so it overstates the engine alone.");
+  console.log("engine memory = peak resident memory the engine added while fitting, over the input's size as Float64 (x and y).");
 }

@@ -53,16 +53,6 @@ export function ddMul(ahi: number, alo: number, bhi: number, blo: number, out: D
   return out;
 }
 
-/** dd sum (ahi + alo) + (bhi + blo), rounded to a dd. */
-export function ddAdd(ahi: number, alo: number, bhi: number, blo: number, out: DD): DD {
-  twoSum(ahi, bhi, out);
-  const lo = out.lo + alo + blo;
-  const s = out.hi + lo;
-  out.lo = lo - (s - out.hi);
-  out.hi = s;
-  return out;
-}
-
 /** Square root of a nonnegative double as a dd: sqrt(a) = out.hi + out.lo to about 2^-104 relative. */
 export function ddSqrt(a: number, out: DD): DD {
   if (a === 0) {

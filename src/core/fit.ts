@@ -136,7 +136,6 @@ export class LeastSquaresFit {
   readonly yHi: Float64Array;
   readonly yLo: Float64Array | null;
   private covCache: Float64Array | null = null;
-  private covConverged = true;
   private depCache: Dependency[] | null = null;
   private levCache: Float64Array | null = null;
   private condCache: { value: number; weakest: Float64Array } | null = null;
@@ -363,14 +362,12 @@ export class LeastSquaresFit {
     if (r > 0 && this.condition().value <= 1e7) {
       const res = refineCovarianceGram(this.qr, ddGram(this.design, this.qr.kept, r), r);
       out = res.c;
-      this.covConverged = res.converged;
     } else {
       const c = new Float64Array(r * r);
       for (let k = 0; k < r; k++) c[k * r + k] = 1;
       const sol = refineAugmented(this.qr, this.design, r, r, null, null, c);
       out = sol.x;
       for (let t = 0; t < out.length; t++) out[t] = -out[t]!;
-      this.covConverged = sol.converged.every(Boolean);
     }
     // Symmetrize (the two triangles agree to rounding after refinement).
     for (let i = 0; i < r; i++)
@@ -381,12 +378,6 @@ export class LeastSquaresFit {
       }
     this.covCache = out;
     return out;
-  }
-
-  /** Whether the covariance refinement met its stopping test for every column. */
-  covarianceConverged(): boolean {
-    this.scaledCovariance();
-    return this.covConverged;
   }
 
   /** σ̃ (scaled residual standard error) or why it is not available. */

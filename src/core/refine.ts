@@ -132,8 +132,9 @@ export function refineAugmented(
 
 /**
  * One pass over column `col` of A doing both halves of a refinement residual:
- * (s, comp) += α · A(:, col) as in residualUpdate, and returns c0 − A(:, col)ᵀ v[vo ..] as in
- * dotResidual. Each entry of A is split once for both products.
+ * (s, comp) += α · A(:, col) as in residualUpdate, and returns c0 − A(:, col)ᵀ v[vo ..] in the
+ * same compensated style (Dot2 with the low part of A folded in). Each entry of A is split once
+ * for both products.
  */
 export function fusedColumnPass(A: DDMatrix, col: number, alpha: number, s: Float64Array, comp: Float64Array, c0: number, v: Float64Array, vo: number, m: number): number {
   const hi = A.hi;
@@ -202,32 +203,6 @@ export function residualUpdate(A: DDMatrix, col: number, alpha: number, s: Float
     s[i] = sn;
     comp[i]! += si - (sn - bb) + (p - bb) + pe + (lo ? lo[off + i]! * alpha : 0);
   }
-}
-
-/** c0 − Σ_i A(i, col) · v[vo + i], compensated (Dot2 with the low part of A folded in). */
-export function dotResidual(A: DDMatrix, col: number, c0: number, v: Float64Array, vo: number, m: number): number {
-  const hi = A.hi;
-  const lo = A.lo;
-  const off = col * m;
-  let s = c0;
-  let e = 0;
-  for (let i = 0; i < m; i++) {
-    const a = hi[off + i]!;
-    const b = -v[vo + i]!;
-    const p = a * b;
-    let t = SPLITTER * a;
-    const ah = t - (t - a);
-    const al = a - ah;
-    t = SPLITTER * b;
-    const bh = t - (t - b);
-    const bl = b - bh;
-    const pe = ah * bh - p + ah * bl + al * bh + al * bl;
-    const sn = s + p;
-    const bb = sn - s;
-    e += s - (sn - bb) + (p - bb) + pe + (lo ? lo[off + i]! * b : 0);
-    s = sn;
-  }
-  return s + e;
 }
 
 /**
