@@ -77,6 +77,8 @@ export function refineAugmented(
   const comp = new Float64Array(m);
   const g = new Float64Array(nk);
   const dx = new Float64Array(nk);
+  const rh = new Float64Array(m);
+  const rl = new Float64Array(m);
   const cols = qr.kept.subarray(0, nk);
   for (let t = 0; t < nr; t++) {
     const xo = t * nk;
@@ -97,7 +99,15 @@ export function refineAugmented(
           f[i] = s;
           comp[i] = bh - (s - bb) + (-ri - bb) + (bLo ? bLo[ro + i]! : 0);
         }
-        for (let k = 0; k < nk; k++) g[k] = fusedColumnPass(A, cols[k]!, -x[xo + k]!, f, comp, c ? c[t * nk + k]! : 0, r, ro, m);
+        // Split −r once per step (Dekker halves), shared by every column's dot product.
+        for (let i = 0; i < m; i++) {
+          const b = -r[ro + i]!;
+          const u = SPLITTER * b;
+          const bh = u - (u - b);
+          rh[i] = bh;
+          rl[i] = b - bh;
+        }
+        for (let k = 0; k < nk; k++) g[k] = fusedColumnPass(A, cols[k]!, -x[xo + k]!, f, comp, c ? c[t * nk + k]! : 0, rh, rl, m);
         for (let i = 0; i < m; i++) f[i] = f[i]! + comp[i]!;
       }
       // corrections
@@ -132,11 +142,11 @@ export function refineAugmented(
 
 /**
  * One pass over column `col` of A doing both halves of a refinement residual:
- * (s, comp) += α · A(:, col) as in residualUpdate, and returns c0 − A(:, col)ᵀ v[vo ..] in the
- * same compensated style (Dot2 with the low part of A folded in). Each entry of A is split once
- * for both products.
+ * (s, comp) += α · A(:, col) as in residualUpdate, and returns c0 + A(:, col)ᵀ v, compensated
+ * (Dot2 with the low part of A folded in), where v is given already split into Dekker halves
+ * vh + vl (it is −r, the same for every column). Each entry of A is split once for both products.
  */
-export function fusedColumnPass(A: DDMatrix, col: number, alpha: number, s: Float64Array, comp: Float64Array, c0: number, v: Float64Array, vo: number, m: number): number {
+export function fusedColumnPass(A: DDMatrix, col: number, alpha: number, s: Float64Array, comp: Float64Array, c0: number, vh: Float64Array, vl: Float64Array, m: number): number {
   const hi = A.hi;
   const lo = A.lo;
   const off = col * m;
@@ -157,11 +167,10 @@ export function fusedColumnPass(A: DDMatrix, col: number, alpha: number, s: Floa
     const sn = si + p;
     const bb = sn - si;
     s[i] = sn;
-    // ds −= a·v_i
-    const b = -v[vo + i]!;
-    t = SPLITTER * b;
-    const bh = t - (t - b);
-    const bl = b - bh;
+    // ds += a·v_i
+    const bh = vh[i]!;
+    const bl = vl[i]!;
+    const b = bh + bl;
     const q = a * b;
     const qe = ah * bh - q + ah * bl + al * bh + al * bl;
     const dn = ds + q;

@@ -47,7 +47,8 @@ export class ContentCache<V> {
     }
     this.misses++;
     const value = make();
-    const size = keySize(key);
+    // The stored inputs plus what a fit keeps (scaled design, factor, residuals): about 4× the inputs.
+    const size = 4 * keySize(key);
     this.entries.unshift({ hash: h, key, size, value });
     this.total += size;
     while (this.entries.length > this.maxEntries || (this.total > this.maxBytes && this.entries.length > 1)) {
