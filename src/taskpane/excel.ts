@@ -68,15 +68,19 @@ export function startExcel(app: HTMLElement): void {
   const show = async (): Promise<void> => {
     const where = await Excel.run(async (ctx) => {
       const cell = ctx.workbook.getActiveCell();
-      cell.load("address");
+      cell.load("address,formulas");
       const parent = cell.getSpillParentOrNullObject();
-      parent.load("address");
+      parent.load("address,formulas");
       await ctx.sync();
-      return { address: cell.address, anchor: parent.isNullObject ? null : parent.address };
+      const formula = String((parent.isNullObject ? cell.formulas : parent.formulas)?.[0]?.[0] ?? "");
+      return { address: cell.address, anchor: parent.isNullObject ? null : parent.address, formula };
     });
     const rec = (where.anchor ? lookup(where.anchor) : undefined) ?? lookup(where.address);
     if (!rec) {
-      status.textContent = `${where.address} does not hold an LSQ formula. Select a cell with one (or one of its results) to see its fit explained.`;
+      const fn = /^=\s*LSQ\.(\w+)\s*\(/i.exec(where.formula)?.[1];
+      status.textContent = fn
+        ? `${where.anchor ?? where.address} holds LSQ.${fn.toUpperCase()}, but it has not been calculated since the add-in started. Recalculate it (edit the cell and press Enter, or recalculate the workbook) and the pane will explain it.`
+        : `${where.address} does not hold an LSQ formula. Select a cell with one (or one of its results) to see its fit explained.`;
       out.replaceChildren();
       return;
     }

@@ -17,16 +17,17 @@
     Error: HostError,
     ErrorCode: { invalidValue: "#VALUE!", notAvailable: "#N/A", divisionByZero: "#DIV/0!", invalidNumber: "#NUM!" },
   };
-  const state = { active: "Sheet1!A1", spill: {}, headers: {}, written: [], handler: null, calls: [] };
+  const state = { active: "Sheet1!A1", spill: {}, headers: {}, formulas: {}, written: [], handler: null, calls: [] };
   window.__excel = state;
   function range(address) {
     return {
       address,
       values: undefined,
+      formulas: [[state.formulas[address] ?? ""]],
       load() {},
       getSpillParentOrNullObject() {
         const p = state.spill[address];
-        return { isNullObject: !p, address: p || "", load() {} };
+        return { isNullObject: !p, address: p || "", formulas: [[state.formulas[p] ?? ""]], load() {} };
       },
       getRow() {
         return {

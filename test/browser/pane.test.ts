@@ -148,6 +148,13 @@ describe.skipIf(!have)("in the spreadsheet (stand-in for the Excel API)", () => 
     // A cell without an LSQ formula: the pane says so.
     await page.evaluate(() => (window as unknown as { __select: (a: string) => Promise<void> }).__select("Sheet1!K9"));
     await expect.poll(() => page.textContent("#status")).toContain("does not hold an LSQ formula");
+    // An LSQ formula not calculated in this session (e.g. a workbook just opened): the pane says how to get it explained.
+    await page.evaluate(() => {
+      const w = window as unknown as { __excel: { formulas: Record<string, string> }; __select: (a: string) => Promise<void> };
+      w.__excel.formulas["Sheet1!H2"] = "=LSQ.PARAMS(A2:A13,B2:D13)";
+      return w.__select("Sheet1!H2");
+    });
+    await expect.poll(() => page.textContent("#status")).toContain("holds LSQ.PARAMS, but it has not been calculated");
     // Insert example: a new sheet with data and one formula for each LSQ function.
     await page.getByRole("button", { name: "Insert example" }).click();
     await expect
