@@ -50,6 +50,9 @@ import { LsqError } from "./errors";
 
 export const EPS = 2.220446049250313e-16;
 
+/** Reflectors are applied in groups of this many as one block reflector I − V T Vᵀ (compact WY). */
+const GROUP = 4;
+
 /** Default rank tolerance for an m×p design (see the module comment for why). */
 export function defaultTolerance(m: number, p: number): number {
   return 10 * Math.sqrt(Math.max(1, m) * Math.max(1, p)) * EPS;
@@ -76,6 +79,11 @@ export class HouseholderQR {
   readonly tolerance: number;
   /** Rank: number of kept columns. */
   readonly rank: number;
+  /**
+   * Compact-WY factors: for each complete group of GROUP consecutive reflectors, the upper
+   * triangular T (GROUP × GROUP, column-major) with H_g ⋯ H_{g+GROUP−1} = I − V T Vᵀ.
+   */
+  readonly tmat: Float64Array;
 
   /**
    * Factor `a` (m×p, column-major) in place.
@@ -99,12 +107,17 @@ export class HouseholderQR {
     const ratio = new Float64Array(p);
     let k = 0;
     const keptNorm = new Float64Array(Math.min(m, p));
+    const tmat = new Float64Array(Math.ceil(Math.min(m, p) / GROUP) * GROUP * GROUP);
+    this.tmat = tmat;
     const z = new Float64Array(Math.min(m, p));
     for (let j = 0; j < p; j++) {
       const cj = j * m;
       const norm0 = nrm2(a, cj, m);
       // Left-looking: apply H_0 … H_{k−1} to column j.
-      for (let q = 0; q < k; q++) applyReflector(a, kept[q]! * m, q, m, tau[q]!, cj);
+      // Complete groups of GROUP reflectors as one block reflector, the rest one at a time.
+      const full = k - (k % GROUP);
+      for (let g = 0; g < full; g += GROUP) applyGroup(a, kept, g, m, tmat, a, cj, true);
+      for (let q = full; q < k; q++) applyReflector(a, kept[q]! * m, q, m, tau[q]!, cj);
       keptBefore[j] = k;
       const rest = k < m ? nrm2(a, cj + k, m - k) : 0;
       ratio[j] = norm0 > 0 ? rest / norm0 : 0;
@@ -128,6 +141,7 @@ export class HouseholderQR {
       keptNorm[k] = norm0;
       kept.push(j);
       k++;
+      if (k % GROUP === 0) buildGroupT(a, kept, k - GROUP, m, tau, tmat);
     }
     this.tau = tau;
     this.kept = Int32Array.from(kept);
@@ -144,12 +158,16 @@ export class HouseholderQR {
 
   /** v ← Qᵀ v using the first `nk` reflectors (v has length m, stride 1 from `off`). */
   applyQt(nk: number, v: Float64Array, off = 0): void {
-    for (let q = 0; q < nk; q++) applyReflectorTo(this.a, this.kept[q]! * this.m, q, this.m, this.tau[q]!, v, off);
+    const full = Math.floor(Math.min(nk, this.rank) / GROUP) * GROUP;
+    for (let g = 0; g < full; g += GROUP) applyGroup(this.a, this.kept, g, this.m, this.tmat, v, off, true);
+    for (let q = full; q < nk; q++) applyReflectorTo(this.a, this.kept[q]! * this.m, q, this.m, this.tau[q]!, v, off);
   }
 
   /** v ← Q v using the first `nk` reflectors. */
   applyQ(nk: number, v: Float64Array, off = 0): void {
-    for (let q = nk - 1; q >= 0; q--) applyReflectorTo(this.a, this.kept[q]! * this.m, q, this.m, this.tau[q]!, v, off);
+    const full = Math.floor(Math.min(nk, this.rank) / GROUP) * GROUP;
+    for (let q = nk - 1; q >= full; q--) applyReflectorTo(this.a, this.kept[q]! * this.m, q, this.m, this.tau[q]!, v, off);
+    for (let g = full - GROUP; g >= 0; g -= GROUP) applyGroup(this.a, this.kept, g, this.m, this.tmat, v, off, false);
   }
 
   /** Solve R(0:nk, 0:nk) z = v in place (back substitution); v[off .. off+nk). */
@@ -247,4 +265,81 @@ function applyReflectorTo(a: Float64Array, vOff: number, q: number, m: number, t
   const s = tau * (s0 + s1 + (s2 + s3));
   c[c0]! -= s;
   for (i = 1; i < n; i++) c[c0 + i]! -= s * a[v0 + i]!;
+}
+
+/**
+ * T for the group of GROUP reflectors starting at g (LAPACK's forward, columnwise dlarft):
+ * T(t, t) = τ_t and T(0:t, t) = −τ_t · T(0:t, 0:t) · V(:, 0:t)ᵀ v_t.
+ */
+function buildGroupT(a: Float64Array, kept: readonly number[], g: number, m: number, tau: Float64Array, tmat: Float64Array): void {
+  const T = g * GROUP; // offset of this group's T (groups are stored one after another)
+  const w = new Float64Array(GROUP);
+  for (let t = 0; t < GROUP; t++) {
+    const qt = g + t;
+    const vt = kept[qt]! * m;
+    // w_s = v_sᵀ v_t for s < t; v_t is zero above row qt and 1 at row qt.
+    for (let s = 0; s < t; s++) {
+      const vs = kept[g + s]! * m;
+      let d = a[vs + qt]!; // v_s(qt) · 1
+      for (let i = qt + 1; i < m; i++) d += a[vs + i]! * a[vt + i]!;
+      w[s] = d;
+    }
+    const tt = tau[qt]!;
+    for (let s = 0; s < t; s++) {
+      let v = 0;
+      for (let u = s; u < t; u++) v += tmat[T + u * GROUP + s]! * w[u]!;
+      tmat[T + t * GROUP + s] = -tt * v;
+    }
+    tmat[T + t * GROUP + t] = tt;
+  }
+}
+
+/**
+ * Apply the block reflector of the group starting at reflector g to c[cOff .. cOff+m):
+ * transposed (Qᵀ c = c − V Tᵀ Vᵀ c) when `transpose`, else Q c = c − V T Vᵀ c. The four inner
+ * products share one pass over c and the update is a second pass.
+ */
+function applyGroup(a: Float64Array, kept: readonly number[] | Int32Array, g: number, m: number, tmat: Float64Array, c: Float64Array, cOff: number, transpose: boolean): void {
+  const T = g * GROUP;
+  const v0 = kept[g]! * m;
+  const v1 = kept[g + 1]! * m;
+  const v2 = kept[g + 2]! * m;
+  const v3 = kept[g + 3]! * m;
+  const r0 = g; // first row touched
+  // w = Vᵀ c. Rows g..g+3 are the triangular head of V (1 on the diagonal, 0 above).
+  const c0 = c[cOff + r0]!;
+  const c1 = c[cOff + r0 + 1]!;
+  const c2 = c[cOff + r0 + 2]!;
+  const c3 = c[cOff + r0 + 3]!;
+  let w0 = c0 + a[v0 + r0 + 1]! * c1 + a[v0 + r0 + 2]! * c2 + a[v0 + r0 + 3]! * c3;
+  let w1 = c1 + a[v1 + r0 + 2]! * c2 + a[v1 + r0 + 3]! * c3;
+  let w2 = c2 + a[v2 + r0 + 3]! * c3;
+  let w3 = c3;
+  for (let i = r0 + GROUP; i < m; i++) {
+    const ci = c[cOff + i]!;
+    w0 += a[v0 + i]! * ci;
+    w1 += a[v1 + i]! * ci;
+    w2 += a[v2 + i]! * ci;
+    w3 += a[v3 + i]! * ci;
+  }
+  // w ← Tᵀ w (transpose) or T w
+  const t = (row: number, col: number): number => tmat[T + col * GROUP + row]!;
+  let u0: number, u1: number, u2: number, u3: number;
+  if (transpose) {
+    u0 = t(0, 0) * w0;
+    u1 = t(0, 1) * w0 + t(1, 1) * w1;
+    u2 = t(0, 2) * w0 + t(1, 2) * w1 + t(2, 2) * w2;
+    u3 = t(0, 3) * w0 + t(1, 3) * w1 + t(2, 3) * w2 + t(3, 3) * w3;
+  } else {
+    u0 = t(0, 0) * w0 + t(0, 1) * w1 + t(0, 2) * w2 + t(0, 3) * w3;
+    u1 = t(1, 1) * w1 + t(1, 2) * w2 + t(1, 3) * w3;
+    u2 = t(2, 2) * w2 + t(2, 3) * w3;
+    u3 = t(3, 3) * w3;
+  }
+  // c −= V u
+  c[cOff + r0] = c0 - u0;
+  c[cOff + r0 + 1] = c1 - a[v0 + r0 + 1]! * u0 - u1;
+  c[cOff + r0 + 2] = c2 - a[v0 + r0 + 2]! * u0 - a[v1 + r0 + 2]! * u1 - u2;
+  c[cOff + r0 + 3] = c3 - a[v0 + r0 + 3]! * u0 - a[v1 + r0 + 3]! * u1 - a[v2 + r0 + 3]! * u2 - u3;
+  for (let i = r0 + GROUP; i < m; i++) c[cOff + i]! -= a[v0 + i]! * u0 + a[v1 + i]! * u1 + a[v2 + i]! * u2 + a[v3 + i]! * u3;
 }
