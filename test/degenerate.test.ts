@@ -119,3 +119,19 @@ describe("degenerate fits", () => {
     expect(f.influence()[4]!.leverage).toBe(0);
   });
 });
+
+describe("extreme weights", () => {
+  it("weights near the largest and smallest doubles give the same fit as moderate ones", () => {
+    const xs = [1, 2, 3, 4.5, 5, 6];
+    const ys = [1.5, 2.1, 2.9, 4.2, 5.1, 5.8];
+    const w = [1, 2, 1, 3, 1, 2];
+    const base = fit(ys, [xs], true, w);
+    for (const s of [2 ** 1000, 2 ** -1000, 2 ** -1070]) {
+      const f = fit(ys, [xs], true, w.map((v) => v * s));
+      // weights scaled by a power of two (exactly): √(2^k) is exact for even k; estimates agree
+      expect(Math.abs(f.coefficients()[1]! / base.coefficients()[1]! - 1)).toBeLessThan(1e-14);
+      expect(typeof f.statistics().rss).toBe("number");
+      noNaN(f);
+    }
+  });
+});

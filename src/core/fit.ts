@@ -174,21 +174,32 @@ export class LeastSquaresFit {
     this.cs = cs;
     this.design = { m: n, hi, lo: anyLo ? lo : null };
 
-    // Response ỹ = y·√w·2^ys in dd.
+    // Response ỹ = y·√w·2^ys in dd: y is scaled so its largest magnitude lies in [0.5, 1), then,
+    // once multiplied by √w, scaled again the same way (weights can be as large or small as any
+    // double), so sums of squares neither overflow nor underflow.
     let ymax = 0;
     for (let t = 0; t < n; t++) ymax = Math.max(ymax, Math.abs(spec.y[used[t]!]!));
-    this.ys = -exponentOf(ymax);
+    let ys = -exponentOf(ymax);
     const yHi = new Float64Array(n);
     const yLo = sw ? new Float64Array(n) : null;
     const tmp: DD = { hi: 0, lo: 0 };
     for (let t = 0; t < n; t++) {
-      const v = scaleByPow2(spec.y[used[t]!]!, this.ys);
+      const v = scaleByPow2(spec.y[used[t]!]!, ys);
       if (sw) {
         twoProd(v, sw.hi[t]!, tmp);
         yHi[t] = tmp.hi;
         yLo![t] = tmp.lo + v * sw.lo[t]!;
       } else yHi[t] = v;
     }
+    if (yLo) {
+      let wmax = 0;
+      for (let t = 0; t < n; t++) wmax = Math.max(wmax, Math.abs(yHi[t]!));
+      const e = -exponentOf(wmax);
+      scaleArrayByPow2(yHi, 0, n, e);
+      scaleArrayByPow2(yLo, 0, n, e);
+      ys += e;
+    }
+    this.ys = ys;
     this.yHi = yHi;
     this.yLo = yLo;
 
