@@ -371,8 +371,7 @@ export class LeastSquaresFit {
     const r = this.rank;
     let out: Float64Array;
     if (r > 0 && this.condition().value <= 1e7) {
-      const res = refineCovarianceGram(this.qr, ddGram(this.design, this.qr.kept, r), r);
-      out = res.c;
+      out = refineCovarianceGram(this.qr, ddGram(this.design, this.qr.kept, r), r);
     } else {
       const c = new Float64Array(r * r);
       for (let k = 0; k < r; k++) c[k * r + k] = 1;
@@ -803,15 +802,13 @@ export type { NotAvailable };
  * C ← C + R⁻¹R⁻ᵀ(I − G C), residuals in compensated arithmetic, until the correction is below
  * ε‖C‖ or stops halving.
  */
-function refineCovarianceGram(qr: HouseholderQR, G: { hi: Float64Array; lo: Float64Array }, r: number): { c: Float64Array; converged: boolean } {
+function refineCovarianceGram(qr: HouseholderQR, G: { hi: Float64Array; lo: Float64Array }, r: number): Float64Array {
   const c = new Float64Array(r * r);
   const col = new Float64Array(r);
-  let converged = true;
   const tmp: DD = { hi: 0, lo: 0 };
   for (let t = 0; t < r; t++) {
     const o = t * r;
     let prev = Infinity;
-    let done = false;
     for (let step = 0; step < 10; step++) {
       // residual e_t − G c_t
       for (let i = 0; i < r; i++) {
@@ -837,14 +834,10 @@ function refineCovarianceGram(qr: HouseholderQR, G: { hi: Float64Array; lo: Floa
       }
       if (step > 0 && !(nd < prev)) break;
       for (let i = 0; i < r; i++) c[o + i]! += col[i]!;
-      if (nd <= EPS * nc || (step > 0 && (nd * nd) / prev <= 0.5 * EPS * nc)) {
-        done = true;
-        break;
-      }
+      if (nd <= EPS * nc || (step > 0 && (nd * nd) / prev <= 0.5 * EPS * nc)) break;
       if (step > 0 && nd > 0.5 * prev) break;
       prev = nd;
     }
-    if (!done) converged = false;
   }
-  return { c, converged };
+  return c;
 }
