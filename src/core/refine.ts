@@ -162,28 +162,27 @@ export function fusedColumnPass(A: DDMatrix, col: number, alpha: number, s: Floa
     const al = a - ah;
     // (s, comp) += a·α
     const p = a * alpha;
-    const pe = ah * xh - p + ah * xl + al * xh + al * xl;
     const si = s[i]!;
     const sn = si + p;
     const bb = sn - si;
     s[i] = sn;
+    comp[i]! += si - (sn - bb) + (p - bb) + (ah * xh - p + ah * xl + al * xh + al * xl);
     // ds += a·v_i
     const bh = vh[i]!;
     const bl = vl[i]!;
-    const b = bh + bl;
-    const q = a * b;
-    const qe = ah * bh - q + ah * bl + al * bh + al * bl;
+    const q = a * (bh + bl);
     const dn = ds + q;
     const cc = dn - ds;
-    if (lo) {
-      const l = lo[off + i]!;
-      comp[i]! += si - (sn - bb) + (p - bb) + pe + l * alpha;
-      de += ds - (dn - cc) + (q - cc) + qe + l * b;
-    } else {
-      comp[i]! += si - (sn - bb) + (p - bb) + pe;
-      de += ds - (dn - cc) + (q - cc) + qe;
-    }
+    de += ds - (dn - cc) + (q - cc) + (ah * bh - q + ah * bl + al * bh + al * bl);
     ds = dn;
+  }
+  if (lo) {
+    // The low parts of A contribute products that are already 2^-53 smaller: working precision.
+    for (let i = 0; i < m; i++) {
+      const l = lo[off + i]!;
+      comp[i]! += l * alpha;
+      de += l * (vh[i]! + vl[i]!);
+    }
   }
   return ds + de;
 }
