@@ -157,7 +157,9 @@ export function findings(input: FindingsInput): Finding[] {
     });
   }
 
-  for (const dep of fit.dependencies()) {
+  // With fewer usable rows than parameters every extra column is a combination of the others in
+  // those rows; listing those relations would only restate the "too few rows" finding.
+  for (const dep of n < p ? [] : fit.dependencies()) {
     const name = labels[dep.column] ?? `column ${dep.column + 1}`;
     if (dep.zero) {
       out.push({

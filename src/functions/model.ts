@@ -27,8 +27,8 @@ export interface Model {
   readonly m: number;
   /** y was given as a row (results that follow y's rows are returned as a row). */
   readonly asRow: boolean;
-  /** Why input row i (0-based) was skipped, in words. */
-  skipReason(i: number): string;
+  /** Why input row i (0-based) was skipped, in words; `xNames` names the x columns (default "x column 2"). */
+  skipReason(i: number, xNames?: readonly string[]): string;
 }
 
 const cache = new ContentCache<Model | SheetError>(32);
@@ -124,12 +124,12 @@ function makeModel(fit: LeastSquaresFit, intercept: boolean, k: number, degree: 
     labels,
     m,
     asRow,
-    skipReason(i: number): string {
+    skipReason(i: number, xNames?: readonly string[]): string {
       const st = fit.status[i];
       if (st === RowStatus.MissingY) return `y is ${KIND_WORDS[y.kinds[i]!]}`;
       if (st === RowStatus.MissingX) {
         const c = fit.missingCol[i]!;
-        return `${k === 1 ? "x" : `x column ${c + 1}`} is ${KIND_WORDS[x.kinds[c * m + i]!]}`;
+        return `${xNames?.[c] ?? (k === 1 ? "x" : `x column ${c + 1}`)} is ${KIND_WORDS[x.kinds[c * m + i]!]}`;
       }
       if (st === RowStatus.MissingWeight && w) return `the weight is ${KIND_WORDS[w.kinds[i]!]}`;
       if (st === RowStatus.ZeroWeight) return "the weight is zero";

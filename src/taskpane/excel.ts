@@ -98,7 +98,7 @@ export function startExcel(app: HTMLElement): void {
       const yAddr = rec.parameterAddresses[0] ? splitAddress(rec.parameterAddresses[0]) : null;
       const row0 = yAddr ? firstRow(yAddr.local) : 1;
       status.textContent = `LSQ.${rec.fn} in ${rec.address}`;
-      renderFit(out, model, labels, { rowNumber: (i) => row0 + i, title: "Row numbers are worksheet rows." });
+      renderFit(out, model, labels, { rowNumber: (i) => row0 + i, xNames: names, title: "Row numbers are worksheet rows." });
     } catch (e) {
       const err = toSheetError(e);
       status.textContent = `LSQ.${rec.fn} in ${rec.address} shows ${err.code}: ${err.message}`;

@@ -104,8 +104,9 @@ export function startPreview(app: HTMLElement): void {
     const deg = Number(degree.value);
     try {
       const model = getModel(y, x, intercept.checked, w, deg);
-      const labels = defaultLabels(intercept.checked, xcols.length, deg, xcols.map((j) => t.header[j] || `column ${j + 1}`));
-      renderFit(out, model, labels, { rowNumber: (i) => i + 1, title: `y = ${t.header[0] || "column 1"}; rows are numbered from the first data row.` });
+      const xNames = xcols.map((j) => t.header[j] || `column ${j + 1}`);
+      const labels = defaultLabels(intercept.checked, xcols.length, deg, xNames);
+      renderFit(out, model, labels, { rowNumber: (i) => i + 1, xNames, title: `y = ${t.header[0] || "column 1"}; rows are numbered from the first data row.` });
     } catch (e) {
       const err = toSheetError(e);
       out.appendChild(el("p", `${err.code} ${err.message}`, "message error"));

@@ -163,10 +163,10 @@ export function renderResidualPlot(model: Model, rowNumber: (i: number) => numbe
 }
 
 /** Everything for one fit: findings first (they say whether to trust the rest), then the tables. */
-export function renderFit(target: HTMLElement, model: Model, labels: readonly string[], opts: { rowNumber?: (i: number) => number; title?: string } = {}): Finding[] {
+export function renderFit(target: HTMLElement, model: Model, labels: readonly string[], opts: { rowNumber?: (i: number) => number; title?: string; xNames?: readonly string[] } = {}): Finding[] {
   target.replaceChildren();
   if (opts.title) target.appendChild(el("p", opts.title, "fit-title"));
-  const list = findings({ fit: model.fit, labels, skipReason: (i) => model.skipReason(i), rowNumber: opts.rowNumber });
+  const list = findings({ fit: model.fit, labels, skipReason: (i) => model.skipReason(i, opts.xNames), rowNumber: opts.rowNumber });
   target.appendChild(renderFindings(list));
   if (model.fit.n >= model.fit.parameters && model.fit.n > 0) {
     target.appendChild(renderCoefficients(model, labels));

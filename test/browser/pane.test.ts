@@ -74,6 +74,7 @@ describe.skipIf(!have)("preview in a plain browser (office.js unavailable)", () 
     expect(await page.locator("svg.residual-plot circle.pt").count()).toBe(8);
     const skipped = (await page.locator('[data-finding="skipped-rows"]').textContent()) ?? "";
     expect(skipped).toContain("3 rows were skipped");
+    expect(skipped).toContain("rainfall (mm) is empty (row 5)");
     await page.context().close();
   });
 
