@@ -31,8 +31,8 @@ import {
   type ModelSpec,
 } from "./design";
 import { EPS, HouseholderQR, nrm2 } from "./qr";
-import { ddGram, refineAugmented, residualUpdate, type DDMatrix } from "./refine";
-import { exponentOf, scaleByPow2 } from "./scale";
+import { columnOf, columnView, ddGram, refineAugmented, residualUpdate, type ColumnView, type DDMatrix } from "./refine";
+import { exponentOf, pow2, scaleByPow2 } from "./scale";
 import { twoProd, twoSum, type DD } from "./dd";
 import { fUpper, tQuantile, tTwoSided } from "./distributions";
 import { conditionNumber } from "./condition";
@@ -157,22 +157,37 @@ export class LeastSquaresFit {
     const sw = this.sw;
 
     // Design (weighted, pre-scaled), then exact equilibration of each column. Low parts exist
-    // only for weighted or polynomial designs.
-    const hi = new Float64Array(n * p);
-    const needLo = !!sw || shape.degree >= 2;
-    const lo = needLo ? new Float64Array(n * p) : null;
+    // only for weighted or polynomial designs. An unweighted degree-1 design with every row used
+    // is not copied at all: its columns are views into x (and a column of ones) times a power of
+    // two; only the factorization gets its own scaled copy.
+    const views = !sw && shape.degree < 2 && n === shape.m ? this.columnViews(spec, shape) : null;
+    let hi: Float64Array;
+    let lo: Float64Array | null = null;
     let anyLo = false;
     const cs = new Int32Array(p);
-    for (let j = 0; j < p; j++) {
-      if (fillDesignColumn(spec, shape, j, used, sw?.hi ?? null, sw?.lo ?? null, this.preExp, hi, lo, j * n)) anyLo = true;
-      const e2 = -exponentOf(nrm2(hi, j * n, n));
-      scaleArrayByPow2(hi, j * n, n, e2);
-      if (lo) scaleArrayByPow2(lo, j * n, n, e2);
-      cs[j] = e2 - designPreExp(shape, spec.intercept, this.preExp, j);
-      checkFinite(hi, lo, j * n, n, j, spec, shape);
+    let qrInput: Float64Array;
+    if (views) {
+      hi = new Float64Array(0);
+      qrInput = new Float64Array(n * p);
+      views.cols.forEach((v, j) => {
+        cs[j] = views.cs[j]!;
+        for (let t = 0; t < n; t++) qrInput[j * n + t] = v.data[v.off + t]! * v.scale;
+      });
+    } else {
+      hi = new Float64Array(n * p);
+      lo = !!sw || shape.degree >= 2 ? new Float64Array(n * p) : null;
+      for (let j = 0; j < p; j++) {
+        if (fillDesignColumn(spec, shape, j, used, sw?.hi ?? null, sw?.lo ?? null, this.preExp, hi, lo, j * n)) anyLo = true;
+        const e2 = -exponentOf(nrm2(hi, j * n, n));
+        scaleArrayByPow2(hi, j * n, n, e2);
+        if (lo) scaleArrayByPow2(lo, j * n, n, e2);
+        cs[j] = e2 - designPreExp(shape, spec.intercept, this.preExp, j);
+        checkFinite(hi, lo, j * n, n, j, spec, shape);
+      }
+      qrInput = Float64Array.from(hi);
     }
     this.cs = cs;
-    this.design = { m: n, hi, lo: anyLo ? lo : null };
+    this.design = views ? { m: n, hi, lo: null, cols: views.cols } : { m: n, hi, lo: anyLo ? lo : null };
 
     // Response ỹ = y·√w·2^ys in dd: y is scaled so its largest magnitude lies in [0.5, 1), then,
     // once multiplied by √w, scaled again the same way (weights can be as large or small as any
@@ -203,7 +218,7 @@ export class LeastSquaresFit {
     this.yHi = yHi;
     this.yLo = yLo;
 
-    this.qr = new HouseholderQR(Float64Array.from(hi), n, p, spec.tolerance);
+    this.qr = new HouseholderQR(qrInput, n, p, spec.tolerance);
     const rank = this.qr.rank;
     const sol = refineAugmented(this.qr, this.design, rank, 1, yHi, yLo, null);
     this.coefScaled = sol.x;
@@ -226,6 +241,43 @@ export class LeastSquaresFit {
     }
     this.residScaled = r;
     this.rssScaled = sumSquares(r, 0, n);
+  }
+
+  /**
+   * Column views for an unweighted degree-1 design with every row used: column j is the x column
+   * (or a column of ones) times 2^cs[j], where cs puts the column's length in [0.5, 1). Returns
+   * null when a scale factor would leave the range where one multiplication is exact.
+   */
+  private columnViews(spec: ModelSpec, shape: ModelShape): { cols: ColumnView[]; cs: Int32Array } | null {
+    const m = shape.m;
+    const cols: ColumnView[] = [];
+    const cs = new Int32Array(shape.p);
+    let j = 0;
+    if (spec.intercept) {
+      const e = -exponentOf(Math.sqrt(m));
+      cols.push({ data: new Float64Array(m).fill(1), off: 0, scale: pow2(e) });
+      cs[j++] = e;
+    }
+    for (let c = 0; c < shape.k; c++, j++) {
+      const pre = this.preExp[c]!;
+      const s = scaleByPow2(1, -pre);
+      if (!(s > 0 && Number.isFinite(s)) || Math.abs(pre) > 1000) return null;
+      let ss = 0;
+      for (let i = c * m; i < (c + 1) * m; i++) {
+        const v = spec.x[i]! * s;
+        ss += v * v;
+      }
+      const e = -exponentOf(Math.sqrt(ss)) - pre;
+      if (Math.abs(e) > 1000) return null;
+      cols.push({ data: spec.x, off: c * m, scale: pow2(e) });
+      cs[j] = e;
+    }
+    return { cols, cs };
+  }
+
+  /** Design column j (scaled, weighted, high parts) as a plain array of the used rows. */
+  designColumn(j: number): Float64Array {
+    return columnOf(this.design, j);
   }
 
   // ------------------------------------------------------------------ structure
@@ -283,12 +335,13 @@ export class LeastSquaresFit {
     const n = this.n;
     for (const j of qr.dropped) {
       const nk = qr.keptBefore[j]!;
-      const colNorm = nrm2(design.hi, j * n, n);
+      const colHi = columnOf(design, j);
+      const colNorm = nrm2(colHi, 0, n);
       if (colNorm === 0) {
         out.push({ column: j, on: new Int32Array(0), coef: new Float64Array(0), scaled: new Float64Array(0), zero: true, remainder: 0 });
         continue;
       }
-      const bHi = design.hi.subarray(j * n, (j + 1) * n);
+      const bHi = colHi;
       const bLo = design.lo ? design.lo.subarray(j * n, (j + 1) * n) : null;
       const sol = nk > 0 ? refineAugmented(qr, design, nk, 1, bHi, bLo, null) : null;
       const on = qr.kept.slice(0, nk);
@@ -613,8 +666,9 @@ export class LeastSquaresFit {
       const nb = Math.min(B, n - i0);
       for (let k = 0; k < r; k++) {
         const zk = k * B;
-        const src = qr.kept[k]! * n + i0;
-        for (let i = 0; i < nb; i++) z[zk + i] = design.hi[src + i]!;
+        const cv = columnView(design, qr.kept[k]!);
+        const src = cv.off + i0;
+        for (let i = 0; i < nb; i++) z[zk + i] = cv.data[src + i]! * cv.scale;
         for (let l = 0; l < k; l++) {
           const rl = qr.r(l, k);
           if (rl === 0) continue;

@@ -25,11 +25,37 @@ import type { HouseholderQR } from "./qr";
 import { EPS } from "./qr";
 import { SPLITTER } from "./dd";
 
-/** A double-double design: columns are addressed as col·m, m = design rows. */
+/**
+ * A double-double design with m rows. Column c is hi[c·m + i] (+ lo[c·m + i]); or, when `cols` is
+ * given, cols[c].data[cols[c].off + i] · cols[c].scale, a view into other storage (the user's x)
+ * multiplied by a power of two, which is exact. Views are used only for exact designs (lo = null).
+ */
 export interface DDMatrix {
   readonly m: number;
   readonly hi: Float64Array;
   readonly lo: Float64Array | null;
+  readonly cols?: readonly ColumnView[];
+}
+
+export interface ColumnView {
+  readonly data: Float64Array;
+  readonly off: number;
+  /** A power of two. */
+  readonly scale: number;
+}
+
+/** Where column `col` of A lives. */
+export function columnView(A: DDMatrix, col: number): ColumnView {
+  return A.cols ? A.cols[col]! : { data: A.hi, off: col * A.m, scale: 1 };
+}
+
+/** Column `col` of A (high parts) as a plain array: a subarray, or a scaled copy of a view. */
+export function columnOf(A: DDMatrix, col: number): Float64Array {
+  const { data, off, scale } = columnView(A, col);
+  if (scale === 1) return data.subarray(off, off + A.m);
+  const out = new Float64Array(A.m);
+  for (let i = 0; i < A.m; i++) out[i] = data[off + i]! * scale;
+  return out;
 }
 
 export interface RefineResult {
@@ -147,16 +173,16 @@ export function refineAugmented(
  * vh + vl (it is −r, the same for every column). Each entry of A is split once for both products.
  */
 export function fusedColumnPass(A: DDMatrix, col: number, alpha: number, s: Float64Array, comp: Float64Array, c0: number, vh: Float64Array, vl: Float64Array, m: number): number {
-  const hi = A.hi;
+  const { data: hi, off, scale } = columnView(A, col);
   const lo = A.lo;
-  const off = col * m;
+  const loOff = col * m;
   let t = SPLITTER * alpha;
   const xh = t - (t - alpha);
   const xl = alpha - xh;
   let ds = c0;
   let de = 0;
   for (let i = 0; i < m; i++) {
-    const a = hi[off + i]!;
+    const a = hi[off + i]! * scale;
     t = SPLITTER * a;
     const ah = t - (t - a);
     const al = a - ah;
@@ -179,7 +205,7 @@ export function fusedColumnPass(A: DDMatrix, col: number, alpha: number, s: Floa
   if (lo) {
     // The low parts of A contribute products that are already 2^-53 smaller: working precision.
     for (let i = 0; i < m; i++) {
-      const l = lo[off + i]!;
+      const l = lo[loOff + i]!;
       comp[i]! += l * alpha;
       de += l * (vh[i]! + vl[i]!);
     }
@@ -192,14 +218,14 @@ export function fusedColumnPass(A: DDMatrix, col: number, alpha: number, s: Floa
  * product by TwoProduct, of the sum by TwoSum, and the low-part product) collected in comp.
  */
 export function residualUpdate(A: DDMatrix, col: number, alpha: number, s: Float64Array, comp: Float64Array, m: number): void {
-  const hi = A.hi;
+  const { data: hi, off, scale } = columnView(A, col);
   const lo = A.lo;
-  const off = col * m;
+  const loOff = col * m;
   let t = SPLITTER * alpha;
   const xh = t - (t - alpha);
   const xl = alpha - xh;
   for (let i = 0; i < m; i++) {
-    const a = hi[off + i]!;
+    const a = hi[off + i]! * scale;
     const p = a * alpha;
     t = SPLITTER * a;
     const ah = t - (t - a);
@@ -209,7 +235,7 @@ export function residualUpdate(A: DDMatrix, col: number, alpha: number, s: Float
     const sn = si + p;
     const bb = sn - si;
     s[i] = sn;
-    comp[i]! += si - (sn - bb) + (p - bb) + pe + (lo ? lo[off + i]! * alpha : 0);
+    comp[i]! += si - (sn - bb) + (p - bb) + pe + (lo ? lo[loOff + i]! * alpha : 0);
   }
 }
 
@@ -222,7 +248,7 @@ export function residualUpdate(A: DDMatrix, col: number, alpha: number, s: Float
  */
 export function ddGram(A: DDMatrix, cols: Int32Array, nk: number): { hi: Float64Array; lo: Float64Array } {
   const m = A.m;
-  const { hi, lo } = A;
+  const { lo } = A;
   const sHi = new Float64Array(nk * nk);
   const sLo = new Float64Array(nk * nk);
   const B = 256;
@@ -232,10 +258,13 @@ export function ddGram(A: DDMatrix, cols: Int32Array, nk: number): { hi: Float64
   for (let i0 = 0; i0 < m; i0 += B) {
     const nb = Math.min(B, m - i0);
     for (let k = 0; k < nk; k++) {
-      const off = cols[k]! * m + i0;
+      const cv = columnView(A, cols[k]!);
+      const src = cv.data;
+      const off = cv.off + i0;
+      const sc = cv.scale;
       const o = k * B;
       for (let i = 0; i < nb; i++) {
-        const a = hi[off + i]!;
+        const a = src[off + i]! * sc;
         const t = SPLITTER * a;
         const ah = t - (t - a);
         v[o + i] = a;
