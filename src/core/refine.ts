@@ -272,66 +272,58 @@ export function ddGram(A: DDMatrix, cols: Int32Array, nk: number): { hi: Float64
         l[o + i] = a - ah;
       }
     }
-    for (let b = 0; b < nk; b++) {
+    // Pairs (a, b) and (a, b + 1) are summed together: column a is loaded once for both, and
+    // the two compensated sums are independent chains.
+    for (let b = 0; b < nk; b += 2) {
+      const b2 = b + 1;
       const ob = b * B;
-      const offB = cols[b]! * m + i0;
+      const ob2 = b2 * B;
       for (let a = 0; a <= b; a++) {
         const oa = a * B;
-        const offA = cols[a]! * m + i0;
-        // Two independent compensated sums (even and odd rows) halve the dependency chain.
-        let s = sHi[b * nk + a]!;
-        let e = sLo[b * nk + a]!;
-        let s2 = 0;
-        let e2 = 0;
-        let i = 0;
-        for (; i + 1 < nb; i += 2) {
-          let x = v[oa + i]!;
-          let y = v[ob + i]!;
-          let p = x * y;
-          let xh = h[oa + i]!;
-          let xl = l[oa + i]!;
-          let yh = h[ob + i]!;
-          let yl = l[ob + i]!;
-          let pe = xh * yh - p + xh * yl + xl * yh + xl * yl;
-          let sn = s + p;
-          let bb = sn - s;
-          e += s - (sn - bb) + (p - bb) + pe;
-          s = sn;
-          x = v[oa + i + 1]!;
-          y = v[ob + i + 1]!;
-          p = x * y;
-          xh = h[oa + i + 1]!;
-          xl = l[oa + i + 1]!;
-          yh = h[ob + i + 1]!;
-          yl = l[ob + i + 1]!;
-          pe = xh * yh - p + xh * yl + xl * yh + xl * yl;
-          sn = s2 + p;
-          bb = sn - s2;
-          e2 += s2 - (sn - bb) + (p - bb) + pe;
-          s2 = sn;
-        }
-        for (; i < nb; i++) {
-          const x = v[oa + i]!;
-          const y = v[ob + i]!;
-          const p = x * y;
-          const pe = h[oa + i]! * h[ob + i]! - p + h[oa + i]! * l[ob + i]! + l[oa + i]! * h[ob + i]! + l[oa + i]! * l[ob + i]!;
-          const sn = s + p;
-          const bb = sn - s;
-          e += s - (sn - bb) + (p - bb) + pe;
-          s = sn;
-        }
-        {
-          // merge the odd-row sum into the even-row sum exactly (TwoSum)
-          const sn = s + s2;
-          const bb = sn - s;
-          e += s - (sn - bb) + (s2 - bb) + e2;
-          s = sn;
-        }
-        if (lo) for (let i = 0; i < nb; i++) e += v[oa + i]! * lo[offB + i]! + lo[offA + i]! * v[ob + i]!;
-        sHi[b * nk + a] = s;
-        sLo[b * nk + a] = e;
+        if (b2 < nk) {
+          let s = sHi[b * nk + a]!;
+          let e = sLo[b * nk + a]!;
+          let s2 = sHi[b2 * nk + a]!;
+          let e2 = sLo[b2 * nk + a]!;
+          for (let i = 0; i < nb; i++) {
+            const x = v[oa + i]!;
+            const xh = h[oa + i]!;
+            const xl = l[oa + i]!;
+            const y = v[ob + i]!;
+            const yh = h[ob + i]!;
+            const yl = l[ob + i]!;
+            const z = v[ob2 + i]!;
+            const zh = h[ob2 + i]!;
+            const zl = l[ob2 + i]!;
+            const p = x * y;
+            const q = x * z;
+            const sn = s + p;
+            const tn = s2 + q;
+            const bb = sn - s;
+            const cc = tn - s2;
+            e += s - (sn - bb) + (p - bb) + (xh * yh - p + xh * yl + xl * yh + xl * yl);
+            e2 += s2 - (tn - cc) + (q - cc) + (xh * zh - q + xh * zl + xl * zh + xl * zl);
+            s = sn;
+            s2 = tn;
+          }
+          sHi[b * nk + a] = s;
+          sLo[b * nk + a] = e;
+          sHi[b2 * nk + a] = s2;
+          sLo[b2 * nk + a] = e2;
+        } else singleDot(v, h, l, oa, ob, nb, sHi, sLo, b * nk + a);
       }
+      if (b2 < nk) singleDot(v, h, l, b2 * B, ob2, nb, sHi, sLo, b2 * nk + b2);
     }
+    if (lo)
+      for (let b = 0; b < nk; b++) {
+        const offB = cols[b]! * m + i0;
+        for (let a = 0; a <= b; a++) {
+          const offA = cols[a]! * m + i0;
+          let e = 0;
+          for (let i = 0; i < nb; i++) e += v[a * B + i]! * lo[offB + i]! + lo[offA + i]! * v[b * B + i]!;
+          sLo[b * nk + a]! += e;
+        }
+      }
   }
   for (let b = 0; b < nk; b++)
     for (let a = 0; a <= b; a++) {
@@ -343,4 +335,21 @@ export function ddGram(A: DDMatrix, cols: Int32Array, nk: number): { hi: Float64
       sLo[b * nk + a] = sLo[a * nk + b] = y;
     }
   return { hi: sHi, lo: sLo };
+}
+
+/** One compensated dot product of two split block columns, accumulated into (sHi, sLo)[at]. */
+function singleDot(v: Float64Array, h: Float64Array, l: Float64Array, oa: number, ob: number, nb: number, sHi: Float64Array, sLo: Float64Array, at: number): void {
+  let s = sHi[at]!;
+  let e = sLo[at]!;
+  for (let i = 0; i < nb; i++) {
+    const x = v[oa + i]!;
+    const y = v[ob + i]!;
+    const p = x * y;
+    const sn = s + p;
+    const bb = sn - s;
+    e += s - (sn - bb) + (p - bb) + (h[oa + i]! * h[ob + i]! - p + h[oa + i]! * l[ob + i]! + l[oa + i]! * h[ob + i]! + l[oa + i]! * l[ob + i]!);
+    s = sn;
+  }
+  sHi[at] = s;
+  sLo[at] = e;
 }
