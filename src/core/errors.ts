@@ -31,7 +31,3 @@ export type Quantity = number | NotAvailable;
 export function notAvailable(reason: string): NotAvailable {
   return { na: reason };
 }
-
-export function isAvailable(q: Quantity): q is number {
-  return typeof q === "number";
-}

@@ -58,8 +58,3 @@ export class SheetError extends Error {
     this.name = "SheetError";
   }
 }
-
-/** Is v an error value that arrived from a cell (any non-array object with a string `code`)? */
-export function isErrorValue(v: unknown): boolean {
-  return typeof v === "object" && v !== null && !Array.isArray(v);
-}
