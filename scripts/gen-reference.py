@@ -163,8 +163,45 @@ def problem(kind, idx):
         else:
             tvals.append(None)
             pvals.append(None)
-    # numpy's own least-squares solution as a second, double-precision opinion
+    # prediction at a new row (the mean of the used rows, shifted), weight 1 for a new observation
     used = sol["used"]
+    # (rank-deficient problems: a data row, which satisfies the exact dependency between columns)
+    if kind == "rank-deficient":
+        x0 = [mp.mpf(float(v)) for v in X[used[0]]]
+    else:
+        x0 = [mp.mpf(float(np.mean(X[used][:, j]) + (0.25 if (j > 0 or not intercept) else 0.0))) for j in range(p)]
+        if intercept:
+            x0[0] = mp.mpf(1)
+    pred = None
+    if sol["sigma"] is not None:
+        k_ = len(kept)
+        A = mp.matrix(len(used), k_)
+        for r_, i in enumerate(used):
+            for c, j in enumerate(kept):
+                A[r_, c] = mp.mpf(float(X[i, j]))
+        G = mp.matrix(k_, k_)
+        for a in range(k_):
+            for c in range(k_):
+                G[a, c] = mp.fsum(sol["ww"][r_] * A[r_, a] * A[r_, c] for r_ in range(len(used)))
+        Ginv = G ** -1
+        xk = mp.matrix([[x0[j] for j in kept]])
+        q = (xk * Ginv * xk.T)[0, 0]
+        yhat = mp.fsum(x0[j] * sol["coef"][j] for j in kept)
+        pred = dict(x=[float(v) for v in x0[1:]] if intercept else [float(v) for v in x0], value=fl(yhat), seMean=fl(sol["sigma"] * mp.sqrt(q)), seNew=fl(sol["sigma"] * mp.sqrt(1 + q)))
+    # studentized (deleted) residuals and Cook's distance for the used rows
+    stud = [None] * len(y)
+    cooks = [None] * len(y)
+    if sol["sigma"] is not None and sol["df"] > 1:
+        s2 = sol["sigma"] ** 2
+        for r_, i in enumerate(used):
+            h = sol["leverage"][i]
+            e = mp.sqrt(sol["ww"][r_]) * sol["resid"][i]
+            if 1 - h > mp.mpf(10) ** -12:
+                st = e / (sol["sigma"] * mp.sqrt(1 - h))
+                df = sol["df"]
+                stud[i] = fl(st * mp.sqrt((df - 1) / (df - st * st)))
+                cooks[i] = fl(st * st * h / (len(kept) * (1 - h)))
+    # numpy's own least-squares solution as a second, double-precision opinion
     sw = np.sqrt(w[used])
     np_coef = np.linalg.lstsq(X[used][:, kept] * sw[:, None], y[used] * sw, rcond=None)[0]
     return dict(
@@ -191,6 +228,9 @@ def problem(kind, idx):
         residuals=[fl(v) for v in sol["resid"]],
         leverage=[fl(v) for v in sol["leverage"]],
         numpyCoefficients=[float(v) for v in np_coef],
+        prediction=pred,
+        studentized=stud,
+        cooks=cooks,
     )
 
 

@@ -31,6 +31,9 @@ interface Problem {
   fitted: (number | null)[];
   residuals: (number | null)[];
   leverage: (number | null)[];
+  prediction: { x: number[]; value: number; seMean: number; seNew: number } | null;
+  studentized: (number | null)[];
+  cooks: (number | null)[];
 }
 
 const ref = JSON.parse(readFileSync(resolve(__dirname, "fixtures/reference.json"), "utf8")) as {
@@ -109,6 +112,33 @@ describe(`reference fits from ${SOURCE}`, () => {
       const kappa = typeof st.conditionNumber === "number" ? st.conditionNumber : 1;
       const tol: Record<string, number> = { coef: 1e-13, se: 1e-13, p: 1e-11, sigma: 1e-13, r2: 1e-13, fitted: 1e-14, resid: 1e-13, lev: 1e-14 + 10 * kappa * 2.22e-16 };
       for (const key of Object.keys(tol)) expect(worst[key], `${pr.name} ${key}: worst relative error ${worst[key]} > ${tol[key]} (${SOURCE})`).toBeLessThanOrEqual(tol[key]!);
+    });
+    it(`${pr.name}: prediction with standard errors, studentized residuals and Cook's distance`, () => {
+      const fit = fitOf(pr);
+      const st = fit.statistics();
+      const kappa = typeof st.conditionNumber === "number" ? st.conditionNumber : 1;
+      if (pr.prediction) {
+        const [pv] = fit.predict(Float64Array.from(pr.prediction.x), 1);
+        const scale = Math.max(...pr.y.map((v) => Math.abs(v ?? 0)));
+        // the prediction is a sum of coefficient × x terms in double: accurate relative to the size of y
+        expect(Math.abs((pv!.value as number) - pr.prediction.value) / scale, `${pr.name} prediction (${SOURCE})`).toBeLessThan(1e-13 * kappa + 1e-14);
+        expect(relErr(pv!.seMean as number, pr.prediction.seMean), `${pr.name} se of the mean (${SOURCE})`).toBeLessThan(1e-12 * kappa);
+        expect(relErr(pv!.seNew as number, pr.prediction.seNew), `${pr.name} se of a new observation (${SOURCE})`).toBeLessThan(1e-12 * kappa);
+      }
+      if (pr.nonIdentifiable.length > 0 && pr.prediction) {
+        // a new row that breaks the dependency between columns cannot be predicted
+        const broken = Float64Array.from(pr.prediction.x, (v, j) => (j === pr.cols - 1 ? v + 1 : v));
+        expect(typeof fit.predict(broken, 1)[0]!.value).toBe("object");
+      }
+      // influence measures inherit the leverage's accuracy (about κ·ε, divided by 1 − h)
+      const inf = fit.influence();
+      pr.studentized.forEach((s, i) => {
+        if (s === null) return;
+        const h = pr.leverage[i]!;
+        const tol = (1e-12 + 100 * kappa * 2.22e-16) / (1 - h);
+        expect(relErr(inf[i]!.studentized as number, s), `${pr.name} studentized row ${i + 1} (${SOURCE})`).toBeLessThan(tol);
+        expect(relErr(inf[i]!.cooks as number, pr.cooks[i]!), `${pr.name} Cook's distance row ${i + 1} (${SOURCE})`).toBeLessThan(tol);
+      });
     });
   }
 });
