@@ -12,7 +12,8 @@ mpmath's regularized incomplete beta function and root finding.
 
 Kinds: plain, weights (some zero), rank-deficient (a later column an exact combination of
 earlier ones; the engine keeps the earlier columns), nearly collinear (scaled condition
-1e3..1e11), skipped rows (missing y or x), no intercept.
+1e3..1e11), skipped rows (missing y or x), no intercept, weighted polynomials of degree 2–6 in x
+on [2, 6] (exact powers in mpmath, as the engine forms them in double-double).
 """
 import json
 import sys
@@ -25,14 +26,28 @@ mp.mp.dps = 60
 rng = np.random.Generator(np.random.PCG64(SEED))
 
 
-def design(x, intercept):
+def design(x, intercept, degree=1):
+    """Design matrix as mpmath-exact values: powers of x are formed in mpmath (exactly) and kept
+    as Python objects so the reference sees the exact powers, as the engine's double-double does."""
     m = x.shape[0]
     cols = ([np.ones(m)] if intercept else []) + [x[:, j] for j in range(x.shape[1])]
+    if degree >= 2:
+        base = x[:, 0]
+        cols = ([np.ones(m)] if intercept else []) + [base ** e for e in range(1, degree + 1)]
     return np.column_stack(cols) if cols else np.zeros((m, 0))
 
 
-def solve(X, y, w, kept):
+def exact_entry(X, x, i, j, intercept, degree):
+    """One design entry in mpmath: exact power for polynomial designs."""
+    if degree >= 2:
+        e = j if intercept else j + 1
+        return mp.mpf(1) if e == 0 else mp.mpf(float(x[i, 0])) ** e
+    return mp.mpf(float(X[i, j]))
+
+
+def solve(X, y, w, kept, entry=None):
     """Weighted least squares on the kept columns in 60-digit arithmetic."""
+    entry = entry or (lambda i, j: mp.mpf(float(X[i, j])))
     used = [i for i in range(len(y)) if not np.isnan(y[i]) and not np.isnan(X[i]).any() and w[i] > 0]
     n = len(used)
     p = X.shape[1]
@@ -42,7 +57,7 @@ def solve(X, y, w, kept):
     ww = [mp.mpf(float(w[i])) for i in used]
     for r, i in enumerate(used):
         for c, j in enumerate(kept):
-            A[r, c] = mp.mpf(float(X[i, j]))
+            A[r, c] = entry(i, j)
         b[r] = mp.mpf(float(y[i]))
     G = mp.matrix(k, k)
     h = mp.matrix(k, 1)
@@ -59,7 +74,7 @@ def solve(X, y, w, kept):
             fitted_all.append(None)
             resid_all.append(None)
             continue
-        f = mp.fsum(mp.mpf(float(X[i, j])) * beta[c] for c, j in enumerate(kept))
+        f = mp.fsum(entry(i, j) * beta[c] for c, j in enumerate(kept))
         fitted_all.append(f)
         resid_all.append(mp.mpf(float(y[i])) - f)
     rss = mp.fsum(ww[r] * resid_all[i] ** 2 for r, i in enumerate(used))
@@ -140,18 +155,27 @@ def problem(kind, idx):
         newcol = base * 1.5 + 0.25 + bump * (np.linalg.norm(base) / np.linalg.norm(bump)) / cond
         x = np.column_stack([x, newcol])
         k += 1
+    degree = 1
+    if kind == "weighted-polynomial":
+        degree = int(rng.integers(2, 7))
+        k = 1
+        x = (np.round(rng.uniform(2.0, 6.0, size=(m, 1)) * 256) / 256)  # away from 0: powers are ill-conditioned
+        y = np.polyval(rng.normal(size=degree + 1), x[:, 0]) + rng.normal(size=m) * 0.05
+        w = rng.uniform(0.2, 3.0, size=m)
+        weights_given = True
     if kind == "skipped":
         for i in rng.integers(0, m, size=3):
             if rng.random() < 0.5:
                 y[i] = np.nan
             else:
                 x[i, int(rng.integers(0, k))] = np.nan
-    X = design(x, intercept)
+    X = design(x, intercept, degree)
     p = X.shape[1]
     kept = list(range(p))
     if kind == "rank-deficient":
         kept = kept[:-1]
-    sol = solve(X, y, w, kept)
+    entry = lambda i, j: exact_entry(X, x, i, j, intercept, degree)
+    sol = solve(X, y, w, kept, entry)
     r2 = rsquared(sol, intercept)
     tvals = []
     pvals = []
@@ -168,6 +192,9 @@ def problem(kind, idx):
     # (rank-deficient problems: a data row, which satisfies the exact dependency between columns)
     if kind == "rank-deficient":
         x0 = [mp.mpf(float(v)) for v in X[used[0]]]
+    elif degree >= 2:
+        xv = mp.mpf(float(np.mean(x[used, 0]) + 0.25))
+        x0 = ([mp.mpf(1)] if intercept else []) + [xv ** e for e in range(1, degree + 1)]
     else:
         x0 = [mp.mpf(float(np.mean(X[used][:, j]) + (0.25 if (j > 0 or not intercept) else 0.0))) for j in range(p)]
         if intercept:
@@ -178,7 +205,7 @@ def problem(kind, idx):
         A = mp.matrix(len(used), k_)
         for r_, i in enumerate(used):
             for c, j in enumerate(kept):
-                A[r_, c] = mp.mpf(float(X[i, j]))
+                A[r_, c] = entry(i, j)
         G = mp.matrix(k_, k_)
         for a in range(k_):
             for c in range(k_):
@@ -187,7 +214,8 @@ def problem(kind, idx):
         xk = mp.matrix([[x0[j] for j in kept]])
         q = (xk * Ginv * xk.T)[0, 0]
         yhat = mp.fsum(x0[j] * sol["coef"][j] for j in kept)
-        pred = dict(x=[float(v) for v in x0[1:]] if intercept else [float(v) for v in x0], value=fl(yhat), seMean=fl(sol["sigma"] * mp.sqrt(q)), seNew=fl(sol["sigma"] * mp.sqrt(1 + q)))
+        xs = [float(x0[1 if intercept else 0])] if degree >= 2 else ([float(v) for v in x0[1:]] if intercept else [float(v) for v in x0])
+        pred = dict(x=xs, value=fl(yhat), seMean=fl(sol["sigma"] * mp.sqrt(q)), seNew=fl(sol["sigma"] * mp.sqrt(1 + q)))
     # studentized (deleted) residuals and Cook's distance for the used rows
     stud = [None] * len(y)
     cooks = [None] * len(y)
@@ -210,6 +238,7 @@ def problem(kind, idx):
         intercept=intercept,
         rows=m,
         cols=k,
+        degree=degree,
         x=[[None if np.isnan(v) else float(v) for v in row] for row in x],
         y=[None if np.isnan(v) else float(v) for v in y],
         weights=[float(v) for v in w] if weights_given else None,
@@ -236,7 +265,7 @@ def problem(kind, idx):
 
 def main():
     problems = []
-    for kind in ["plain", "weights", "rank-deficient", "nearly-collinear", "skipped", "no-intercept"]:
+    for kind in ["plain", "weights", "rank-deficient", "nearly-collinear", "skipped", "no-intercept", "weighted-polynomial"]:
         for i in range(8):
             problems.append(problem(kind, i))
     dist = dict(

@@ -3,7 +3,7 @@
  * were produced by the committed, seeded generator scripts/gen-reference.py with Debian's
  * python3-mpmath (60-digit arithmetic) and python3-numpy; versions are recorded in the file and
  * printed below. Problems: weights (some zero), rank-deficient, nearly collinear (scaled
- * condition up to 1e11), skipped rows, no intercept.
+ * condition up to 1e11), skipped rows, no intercept, weighted polynomials (degree 2–6).
  */
 import { readFileSync } from "node:fs";
 import { resolve } from "node:path";
@@ -17,6 +17,7 @@ interface Problem {
   intercept: boolean;
   rows: number;
   cols: number;
+  degree: number;
   x: (number | null)[][];
   y: (number | null)[];
   weights: number[] | null;
@@ -57,7 +58,7 @@ function fitOf(pr: Problem): LeastSquaresFit {
   const x = new Float64Array(m * k);
   for (let j = 0; j < k; j++) for (let i = 0; i < m; i++) x[j * m + i] = pr.x[i]![j] ?? NaN;
   const y = Float64Array.from(pr.y, (v) => v ?? NaN);
-  return new LeastSquaresFit({ y, x, rows: m, cols: k, intercept: pr.intercept, weights: pr.weights ? Float64Array.from(pr.weights) : null });
+  return new LeastSquaresFit({ y, x, rows: m, cols: k, intercept: pr.intercept, weights: pr.weights ? Float64Array.from(pr.weights) : null, degree: pr.degree });
 }
 
 function relErr(got: number, want: number): number {
