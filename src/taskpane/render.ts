@@ -64,9 +64,9 @@ export function renderFindings(list: readonly Finding[]): HTMLElement {
 export function renderCoefficients(model: Model, labels: readonly string[], level = 0.95): HTMLElement {
   const box = el("section", undefined, "coefs");
   box.appendChild(el("h2", "Coefficients"));
+  box.appendChild(el("p", `Estimates with standard errors, p-values and ${Math.round(level * 100)} % confidence limits (the table scrolls sideways on narrow panes).`, "table-note"));
   const table = el("table");
-  const cap = el("caption", `Estimates with standard errors and ${Math.round(level * 100)} % confidence limits`);
-  table.appendChild(cap);
+  table.setAttribute("aria-label", "Coefficients");
   const head = el("tr");
   for (const h of ["term", "estimate", "std. error", "p-value", "lower", "upper"]) {
     const th = el("th", h);
