@@ -5,7 +5,7 @@
 import { beforeEach, describe, expect, it } from "vitest";
 import * as L from "../src/functions/lsq";
 import { cacheStats, clearCache } from "../src/functions/model";
-import { ContentCache, hashKey } from "../src/functions/cache";
+import { ContentCache } from "../src/functions/cache";
 
 const y = [[1.1], [2.0], [2.8], [4.2], [5.1], [5.8], [7.2]];
 const x = [[1, 0.3], [2, 0.1], [3, 0.7], [4, 0.2], [5, 0.9], [6, 0.4], [7, 0.5]];
@@ -49,15 +49,20 @@ describe("shared factorization", () => {
     const c = new ContentCache<number>(4);
     const a = { numbers: [Float64Array.from([1, 2])], bytes: [], flags: "a" };
     const b = { numbers: [Float64Array.from([1, 3])], bytes: [], flags: "a" };
-    // Force the same bucket by comparing two keys directly: different content never shares a value.
-    expect(c.get(a, () => 1)).toBe(1);
-    expect(c.get(b, () => 2)).toBe(2);
-    expect(c.get(a, () => 3)).toBe(1);
-    expect(hashKey(a)).not.toBe(hashKey(b));
+    const sameAs = (want: Float64Array) => (key: { numbers: readonly Float64Array[] }) => key.numbers[0]!.every((v, i) => Object.is(v, want[i]));
+    // two different inputs stored under the same hash (a collision) never share a value
+    c.insert(7, a, 1);
+    c.insert(7, b, 2);
+    expect(c.find(7, sameAs(a.numbers[0]!))).toBe(1);
+    expect(c.find(7, sameAs(b.numbers[0]!))).toBe(2);
+    expect(c.find(7, sameAs(Float64Array.from([9, 9])))).toBeUndefined();
+    expect(c.find(8, sameAs(a.numbers[0]!))).toBeUndefined();
   });
   it("is bounded", () => {
     const c = new ContentCache<number>(3);
-    for (let i = 0; i < 10; i++) c.get({ numbers: [Float64Array.from([i])], bytes: [], flags: "" }, () => i);
+    for (let i = 0; i < 10; i++) c.insert(i, { numbers: [Float64Array.from([i])], bytes: [], flags: "" }, i);
     expect(c.size).toBe(3);
+    expect(c.find(9, () => true)).toBe(9);
+    expect(c.find(0, () => true)).toBeUndefined();
   });
 });

@@ -1,8 +1,8 @@
 /**
- * A bounded cache of fits keyed by the *content* of their inputs. A hash picks the bucket; a
- * hit is confirmed by comparing every stored input bit for bit, so two inputs that collide in
- * the hash never share a fit. Least recently used entries are evicted when the entry count or
- * the total stored size passes its bound.
+ * A bounded cache of fits keyed by the *content* of their inputs. A hash picks the candidates;
+ * a hit is confirmed by the caller's comparison of every input cell, bit for bit, against the
+ * stored key, so two inputs that collide in the hash never share a fit. Least recently used
+ * entries are evicted when the entry count or the total stored size passes its bound.
  */
 
 export interface KeyParts {
@@ -12,6 +12,8 @@ export interface KeyParts {
   readonly bytes: readonly Uint8Array[];
   /** Scalar options (intercept, degree, orientation…). */
   readonly flags: string;
+  /** The converted inputs themselves, for callers that compare raw input against them. */
+  readonly blocks?: readonly import("./values").Block[];
 }
 
 interface Entry<V> {
@@ -32,30 +34,34 @@ export class ContentCache<V> {
     private readonly maxBytes = 256 * 1024 * 1024,
   ) {}
 
-  /** Return the cached value for `key`, computing and storing it with `make` on a miss. */
-  get(key: KeyParts, make: () => V): V {
-    const h = hashKey(key);
+  /**
+   * The value of the most recently used entry with this hash whose stored key `matches` says is
+   * equal to the caller's input (content comparison, so a hash collision never returns another
+   * input's value), or undefined. Counts a hit or a miss.
+   */
+  find(hash: number, matches: (key: KeyParts) => boolean): V | undefined {
     for (let i = 0; i < this.entries.length; i++) {
       const e = this.entries[i]!;
-      if (e.hash === h && sameKey(e.key, key)) {
+      if (e.hash === hash && matches(e.key)) {
         this.hits++;
-        // move to front (most recently used)
         this.entries.splice(i, 1);
         this.entries.unshift(e);
         return e.value;
       }
     }
     this.misses++;
-    const value = make();
-    // The stored inputs plus what a fit keeps (scaled design, factor, residuals): about 4× the inputs.
+    return undefined;
+  }
+
+  /** Store a value under `hash` with its key (see find), evicting the least recently used. */
+  insert(hash: number, key: KeyParts, value: V): void {
     const size = 4 * keySize(key);
-    this.entries.unshift({ hash: h, key, size, value });
+    this.entries.unshift({ hash, key, size, value });
     this.total += size;
     while (this.entries.length > this.maxEntries || (this.total > this.maxBytes && this.entries.length > 1)) {
       const e = this.entries.pop()!;
       this.total -= e.size;
     }
-    return value;
   }
 
   clear(): void {
@@ -73,39 +79,4 @@ function keySize(k: KeyParts): number {
   for (const a of k.numbers) s += a.byteLength;
   for (const b of k.bytes) s += b.byteLength;
   return s;
-}
-
-/** FNV-1a over the 32-bit words of every input, plus lengths and flags. */
-export function hashKey(k: KeyParts): number {
-  let h = 0x811c9dc5;
-  for (const a of k.numbers) {
-    h = Math.imul(h ^ a.length, 0x01000193);
-    const w = new Uint32Array(a.buffer, a.byteOffset, a.length * 2);
-    for (let i = 0; i < w.length; i++) h = Math.imul(h ^ w[i]!, 0x01000193);
-  }
-  for (const b of k.bytes) {
-    h = Math.imul(h ^ b.length, 0x01000193);
-    for (let i = 0; i < b.length; i++) h = Math.imul(h ^ b[i]!, 0x01000193);
-  }
-  for (let i = 0; i < k.flags.length; i++) h = Math.imul(h ^ k.flags.charCodeAt(i), 0x01000193);
-  return h >>> 0;
-}
-
-function sameKey(a: KeyParts, b: KeyParts): boolean {
-  if (a.flags !== b.flags || a.numbers.length !== b.numbers.length || a.bytes.length !== b.bytes.length) return false;
-  for (let t = 0; t < a.numbers.length; t++) {
-    const x = a.numbers[t]!;
-    const y = b.numbers[t]!;
-    if (x.length !== y.length) return false;
-    const u = new Uint32Array(x.buffer, x.byteOffset, x.length * 2);
-    const v = new Uint32Array(y.buffer, y.byteOffset, y.length * 2);
-    for (let i = 0; i < u.length; i++) if (u[i] !== v[i]) return false;
-  }
-  for (let t = 0; t < a.bytes.length; t++) {
-    const x = a.bytes[t]!;
-    const y = b.bytes[t]!;
-    if (x.length !== y.length) return false;
-    for (let i = 0; i < x.length; i++) if (x[i] !== y[i]) return false;
-  }
-  return true;
 }

@@ -7,7 +7,7 @@ import { LsqError } from "../core/errors";
 import { MAX_DEGREE, RowStatus } from "../core/design";
 import { ContentCache } from "./cache";
 import { SheetError, type ErrorCodeText } from "./cellerror";
-import { CellKind, KIND_WORDS, readBlock, readBoolean, readNumber, readVector, shapeOf, type Block } from "./values";
+import { CellKind, KIND_WORDS, hashRange, rangeEquals, readBlock, readBoolean, readNumber, shapeOf, type Block } from "./values";
 
 /** Documented size limits: above these the functions answer #NUM! instead of freezing the host. */
 export const LIMITS = {
@@ -81,40 +81,62 @@ export function checkSize(m: number, k: number, weighted: boolean, p: number): v
 export function getModel(yArg: unknown, xArg: unknown, interceptArg: unknown, weightsArg: unknown, degreeArg: unknown): Model {
   const intercept = readBoolean(interceptArg, "intercept", true);
   const degree = readDegree(degreeArg);
-  const y = readVector(yArg, "y");
-  const m = y.rows;
+  const ys = shapeOf(yArg, "y");
+  if (ys.rows !== 1 && ys.cols !== 1) throw new SheetError("#VALUE!", `y must be a single column or a single row (it is ${ys.rows} × ${ys.cols})`);
+  const yAsRow = ys.rows === 1 && ys.cols > 1;
+  const m = yAsRow ? ys.cols : ys.rows;
   const xs = shapeOf(xArg, "x");
   let transpose = false;
   if (xs.rows !== m) {
-    if (xs.cols === m && (y.asRow || xs.rows === 1)) transpose = true;
+    if (xs.cols === m && (yAsRow || xs.rows === 1)) transpose = true;
     else throw new SheetError("#VALUE!", `y has ${m} values but x has ${xs.rows} rows; they must match row for row`);
   }
   const k = transpose ? xs.rows : xs.cols;
   if (degree >= 2 && k !== 1) throw new SheetError("#VALUE!", `degree ${degree} needs x to be a single column, but x has ${k} columns`);
   const hasW = !(weightsArg === null || weightsArg === undefined || (Array.isArray(weightsArg) && weightsArg.length === 1 && Array.isArray(weightsArg[0]) && weightsArg[0].length === 1 && (weightsArg[0][0] === null || weightsArg[0][0] === "")));
-  let w: Block | null = null;
+  let wAsRow = false;
   if (hasW) {
-    w = readVector(weightsArg, "weights");
-    if (w.rows !== m) throw new SheetError("#VALUE!", `weights has ${w.rows} values but y has ${m}; they must match row for row`);
+    const ws = shapeOf(weightsArg, "weights");
+    if (ws.rows !== 1 && ws.cols !== 1) throw new SheetError("#VALUE!", `weights must be a single column or a single row (it is ${ws.rows} × ${ws.cols})`);
+    wAsRow = ws.rows === 1 && ws.cols > 1;
+    const mw = wAsRow ? ws.cols : ws.rows;
+    if (mw !== m) throw new SheetError("#VALUE!", `weights has ${mw} values but y has ${m}; they must match row for row`);
   }
   const p = (intercept ? 1 : 0) + (degree >= 2 ? degree : k);
-  checkSize(m, k, w !== null, p);
-  const x = readBlock(xArg, "x", transpose);
-  const key = {
-    numbers: w ? [y.data, x.data, w.data] : [y.data, x.data],
-    bytes: w ? [y.kinds, x.kinds, w.kinds] : [y.kinds, x.kinds],
-    flags: `${intercept ? 1 : 0}|${degree}|${m}|${k}|${transpose ? 1 : 0}|${y.asRow ? 1 : 0}|${w ? 1 : 0}`,
-  };
-  const got = cache.get(key, () => {
-    try {
-      const fit = new LeastSquaresFit({ y: y.data, x: x.data, rows: m, cols: k, intercept, weights: w ? w.data : null, degree });
-      return makeModel(fit, intercept, k, degree, m, y.asRow, y, x, w);
-    } catch (e) {
-      return toSheetError(e);
-    }
+  checkSize(m, k, hasW, p);
+
+  // Look the input up by its content, read straight from the 2-D arrays: a repeated input (the
+  // same ranges in several LSQ formulas) is neither converted nor stored again.
+  const flags = `${intercept ? 1 : 0}|${degree}|${m}|${k}|${transpose ? 1 : 0}|${yAsRow ? 1 : 0}|${hasW ? (wAsRow ? 2 : 1) : 0}`;
+  let h = 0x811c9dc5;
+  for (let i = 0; i < flags.length; i++) h = Math.imul(h ^ flags.charCodeAt(i), 0x01000193);
+  h = hashRange(yArg as unknown[][], h);
+  h = hashRange(xArg as unknown[][], h);
+  if (hasW) h = hashRange(weightsArg as unknown[][], h);
+  const hash = h >>> 0;
+  const found = cache.find(hash, (key) => {
+    if (key.flags !== flags) return false;
+    const [yb, xb, wb] = key.blocks!;
+    return rangeEquals(yArg as unknown[][], yb!, yAsRow) && rangeEquals(xArg as unknown[][], xb!, transpose) && (!hasW || rangeEquals(weightsArg as unknown[][], wb!, wAsRow));
   });
-  if (got instanceof SheetError) throw got;
-  return got;
+  if (found !== undefined) {
+    if (found instanceof SheetError) throw found;
+    return found;
+  }
+  const y = readBlock(yArg, "y", yAsRow);
+  const x = readBlock(xArg, "x", transpose);
+  const w = hasW ? readBlock(weightsArg, "weights", wAsRow) : null;
+  let value: Model | SheetError;
+  try {
+    const fit = new LeastSquaresFit({ y: y.data, x: x.data, rows: m, cols: k, intercept, weights: w ? w.data : null, degree });
+    value = makeModel(fit, intercept, k, degree, m, yAsRow, y, x, w);
+  } catch (e) {
+    value = toSheetError(e);
+  }
+  const blocks = w ? [y, x, w] : [y, x];
+  cache.insert(hash, { numbers: blocks.map((b) => b.data), bytes: blocks.map((b) => b.kinds), flags, blocks }, value);
+  if (value instanceof SheetError) throw value;
+  return value;
 }
 
 function makeModel(fit: LeastSquaresFit, intercept: boolean, k: number, degree: number, m: number, asRow: boolean, y: Block, x: Block, w: Block | null): Model {

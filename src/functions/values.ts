@@ -133,3 +133,53 @@ export function readWord(v: unknown, name: string, allowed: readonly string[]): 
   if (!allowed.includes(t)) throw new SheetError("#VALUE!", `${name} must be ${allowed.map((a) => `"${a}"`).join(" or ")}, not "${s.slice(0, 40)}"`);
   return t;
 }
+
+const scratch = new Float64Array(1);
+const scratchBits = new Uint32Array(scratch.buffer);
+
+/** The kind of a cell that is not an ordinary number. */
+function kindOf(c: unknown): CellKind {
+  if (typeof c === "number") return c === c ? CellKind.Number : CellKind.NotANumber;
+  if (c === null || c === undefined || c === "") return CellKind.Empty;
+  if (typeof c === "string") return CellKind.Text;
+  if (typeof c === "boolean") return CellKind.Boolean;
+  return CellKind.Error;
+}
+
+/**
+ * FNV-1a hash of a rectangular range's content as readBlock would store it (each cell's 64-bit
+ * value and its kind), mixed into `h`, read straight from the 2-D array without converting it.
+ */
+export function hashRange(v: unknown[][], h: number): number {
+  for (let i = 0; i < v.length; i++) {
+    const row = v[i]!;
+    for (let j = 0; j < row.length; j++) {
+      const c = row[j];
+      if (typeof c === "number" && c === c) {
+        scratch[0] = c;
+        h = Math.imul(h ^ scratchBits[0]!, 0x01000193);
+        h = Math.imul(h ^ scratchBits[1]!, 0x01000193);
+      } else h = Math.imul(h ^ (0x100 + kindOf(c)), 0x01000193);
+    }
+  }
+  return h;
+}
+
+/** Does the 2-D array hold exactly what `b` stores (value bits and kinds; transposed as readBlock)? */
+export function rangeEquals(v: unknown[][], b: Block, transpose: boolean): boolean {
+  const rows = b.rows;
+  const bits = new Uint32Array(b.data.buffer, b.data.byteOffset, b.data.length * 2);
+  for (let i = 0; i < v.length; i++) {
+    const row = v[i]!;
+    for (let j = 0; j < row.length; j++) {
+      const at = transpose ? i * rows + j : j * rows + i;
+      const c = row[j];
+      if (typeof c === "number" && c === c) {
+        if (b.kinds[at] !== CellKind.Number) return false;
+        scratch[0] = c;
+        if (scratchBits[0] !== bits[2 * at] || scratchBits[1] !== bits[2 * at + 1]) return false;
+      } else if (b.kinds[at] !== kindOf(c)) return false;
+    }
+  }
+  return true;
+}
