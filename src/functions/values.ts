@@ -83,15 +83,6 @@ export function readBlock(v: unknown, name: string, transpose = false): Block {
   return { rows, cols, data, kinds };
 }
 
-/** Read a single column or single row of values (y, weights). */
-export function readVector(v: unknown, name: string): Block & { asRow: boolean } {
-  const { rows, cols } = shapeOf(v, name);
-  if (rows !== 1 && cols !== 1) throw new SheetError("#VALUE!", `${name} must be a single column or a single row (it is ${rows} × ${cols})`);
-  const asRow = rows === 1 && cols > 1;
-  const b = readBlock(v, name, asRow);
-  return { ...b, asRow };
-}
-
 /** A scalar argument: unwrap a 1×1 array (hosts may pass a single cell that way). */
 function scalar(v: unknown): unknown {
   while (Array.isArray(v)) {
