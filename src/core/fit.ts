@@ -141,6 +141,8 @@ export class LeastSquaresFit {
   private covCache: Float64Array | null = null;
   private depCache: Dependency[] | null = null;
   private levCache: Float64Array | null = null;
+  private studCache: Float64Array | null = null;
+  private infCache: InfluenceRow[] | null = null;
   private condCache: { value: number; weakest: Float64Array } | null = null;
   private outCache: { fitted: Float64Array; resid: Float64Array } | null = null;
 
@@ -690,53 +692,72 @@ export class LeastSquaresFit {
     return h;
   }
 
-  /** Influence measures for every input row. */
+  /**
+   * Studentized (deleted) residual of each used row, length n; NaN where it is not defined
+   * (no σ, exact fit, leverage 1, or fewer than two residual degrees of freedom). Cached.
+   */
+  studentizedUsed(): Float64Array {
+    if (this.studCache) return this.studCache;
+    const n = this.n;
+    const out = new Float64Array(n).fill(NaN);
+    const h = this.leverageUsed();
+    const sig = this.sigmaScaled();
+    const df = this.residualDf;
+    if (typeof sig === "number" && sig > 0 && df > 1)
+      for (let t = 0; t < n; t++) {
+        const oneMinus = 1 - Math.min(1, h[t]!);
+        if (oneMinus <= 1e-12) continue;
+        const s = this.residScaled[t]! / (sig * Math.sqrt(oneMinus));
+        const d = df - s * s;
+        if (d > 0) out[t] = s * Math.sqrt((df - 1) / d);
+      }
+    this.studCache = out;
+    return out;
+  }
+
+  /** Influence measures for every input row (cached; callers must not modify the result). */
   influence(): InfluenceRow[] {
+    if (this.infCache) return this.infCache;
     const m = this.shape.m;
     const h = this.leverageUsed();
+    const stud = this.studentizedUsed();
     const sig = this.sigmaScaled();
     const df = this.residualDf;
     const r = this.rank;
     const out: InfluenceRow[] = new Array<InfluenceRow>(m);
+    const naZero = notAvailable("this row has zero weight, so it does not influence the fit");
+    const naSkip = notAvailable("this row was skipped (missing value)");
+    const naLev1 = notAvailable("this row alone determines part of the fit (leverage 1), so its residual is always zero");
+    const naExact = notAvailable("the model fits exactly (all residuals are zero)");
+    const naDf = notAvailable("deleting a row would leave no residual degrees of freedom");
+    const naAll = notAvailable("this row's residual accounts for all of the scatter, so its deleted residual is unbounded");
     for (let i = 0; i < m; i++) {
       const st = this.status[i]!;
-      if (st === RowStatus.ZeroWeight) {
-        const na = notAvailable("this row has zero weight, so it does not influence the fit");
-        out[i] = { leverage: 0, standardized: na, studentized: na, cooks: na };
-      } else if (st !== RowStatus.Used) {
-        const na = notAvailable("this row was skipped (missing value)");
-        out[i] = { leverage: na, standardized: na, studentized: na, cooks: na };
-      }
+      if (st === RowStatus.ZeroWeight) out[i] = { leverage: 0, standardized: naZero, studentized: naZero, cooks: naZero };
+      else if (st !== RowStatus.Used) out[i] = { leverage: naSkip, standardized: naSkip, studentized: naSkip, cooks: naSkip };
     }
     for (let t = 0; t < this.n; t++) {
       const i = this.used[t]!;
       const hi = Math.min(1, h[t]!);
-      const lev: Quantity = hi;
       if (typeof sig !== "number") {
-        out[i] = { leverage: lev, standardized: sig, studentized: sig, cooks: sig };
+        out[i] = { leverage: hi, standardized: sig, studentized: sig, cooks: sig };
         continue;
       }
       const oneMinus = 1 - hi;
       if (oneMinus <= 1e-12) {
-        const na = notAvailable("this row alone determines part of the fit (leverage 1), so its residual is always zero");
-        out[i] = { leverage: lev, standardized: na, studentized: na, cooks: na };
+        out[i] = { leverage: hi, standardized: naLev1, studentized: naLev1, cooks: naLev1 };
         continue;
       }
       if (sig === 0) {
-        const na = notAvailable("the model fits exactly (all residuals are zero)");
-        out[i] = { leverage: lev, standardized: na, studentized: na, cooks: na };
+        out[i] = { leverage: hi, standardized: naExact, studentized: naExact, cooks: naExact };
         continue;
       }
       const s = this.residScaled[t]! / (sig * Math.sqrt(oneMinus));
       const cooks = (s * s * hi) / (r * oneMinus);
-      let stud: Quantity;
-      if (df <= 1) stud = notAvailable("deleting a row would leave no residual degrees of freedom");
-      else {
-        const d = df - s * s;
-        stud = d > 0 ? s * Math.sqrt((df - 1) / d) : notAvailable("this row's residual accounts for all of the scatter, so its deleted residual is unbounded");
-      }
-      out[i] = { leverage: lev, standardized: s, studentized: stud, cooks };
+      const st = stud[t]!;
+      out[i] = { leverage: hi, standardized: s, studentized: Number.isNaN(st) ? (df <= 1 ? naDf : naAll) : st, cooks };
     }
+    this.infCache = out;
     return out;
   }
 

@@ -273,13 +273,14 @@ export function findings(input: FindingsInput): Finding[] {
   }
 
   if (st.residualDf > 0 && !isExactFit(fit)) {
-    const inf = fit.influence();
+    const lev = fit.leverageUsed();
+    const stud = fit.studentizedUsed();
     const lim = (2 * fit.rank) / n;
     const hiLev: number[] = [];
     const bigRes: number[] = [];
-    inf.forEach((r, i) => {
-      if (typeof r.leverage === "number" && fit.status[i] === RowStatus.Used && r.leverage > lim && n > fit.rank + 1) hiLev.push(rowNo(i));
-      if (typeof r.studentized === "number" && Math.abs(r.studentized) > THRESHOLDS.largeResidual) bigRes.push(rowNo(i));
+    fit.used.forEach((i, t) => {
+      if (lev[t]! > lim && n > fit.rank + 1) hiLev.push(rowNo(i));
+      if (Math.abs(stud[t]!) > THRESHOLDS.largeResidual) bigRes.push(rowNo(i));
     });
     if (hiLev.length > 0)
       out.push({
