@@ -200,16 +200,6 @@ export function fillDesignColumn(
   return anyLo;
 }
 
-/** a[off .. off+n) ← a · 2^e, exactly (two multiplications when |e| > 1000). */
-export function scaleArrayByPow2(a: Float64Array, off: number, n: number, e: number): void {
-  if (e === 0) return;
-  const c = Math.max(-1000, Math.min(1000, e));
-  const s1 = pow2(c);
-  const s2 = pow2(e - c);
-  if (s2 === 1) for (let t = off; t < off + n; t++) a[t]! *= s1;
-  else for (let t = off; t < off + n; t++) a[t] = a[t]! * s1 * s2;
-}
-
 /** √w as dd pairs for the given rows (null when unweighted). */
 export function sqrtWeights(weights: Float64Array | null | undefined, rows: Int32Array): { hi: Float64Array; lo: Float64Array } | null {
   if (!weights) return null;

@@ -27,7 +27,6 @@ import {
   columnExponents,
   designPreExp,
   fillDesignColumn,
-  scaleArrayByPow2,
   sqrtWeights,
   validateSpec,
   type ModelShape,
@@ -35,7 +34,7 @@ import {
 } from "./design";
 import { EPS, HouseholderQR, nrm2 } from "./qr";
 import { columnOf, columnView, ddGram, refineAugmented, residualUpdate, type ColumnView, type DDMatrix } from "./refine";
-import { exponentOf, pow2, scaleByPow2 } from "./scale";
+import { exponentOf, pow2, scaleArrayByPow2, scaleByPow2 } from "./scale";
 import { twoProd, twoSum, type DD } from "./dd";
 import { fUpper, tQuantile, tTwoSided } from "./distributions";
 import { conditionNumber } from "./condition";
@@ -143,6 +142,7 @@ export class LeastSquaresFit {
   private levCache: Float64Array | null = null;
   private studCache: Float64Array | null = null;
   private infCache: InfluenceRow[] | null = null;
+  private statsCache: FitStatistics | null = null;
   private condCache: { value: number; weakest: Float64Array } | null = null;
   private outCache: { fitted: Float64Array; resid: Float64Array } | null = null;
 
@@ -482,7 +482,13 @@ export class LeastSquaresFit {
 
   // ------------------------------------------------------------------ statistics
 
+  /** Summary statistics (computed once; callers must not modify the result). */
   statistics(): FitStatistics {
+    if (!this.statsCache) this.statsCache = this.computeStatistics();
+    return this.statsCache;
+  }
+
+  private computeStatistics(): FitStatistics {
     const n = this.n;
     const rank = this.rank;
     const df = this.residualDf;

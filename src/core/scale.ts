@@ -37,3 +37,13 @@ export function scaleByPow2(v: number, e: number): number {
   if (e < -1000) return v * pow2(-1000) * pow2(e + 1000);
   return v * pow2(e);
 }
+
+/** a[off .. off+n) ← a · 2^e, exactly (two multiplications when |e| > 1000). */
+export function scaleArrayByPow2(a: Float64Array, off: number, n: number, e: number): void {
+  if (e === 0) return;
+  const c = Math.max(-1000, Math.min(1000, e));
+  const s1 = pow2(c);
+  const s2 = pow2(e - c);
+  if (s2 === 1) for (let t = off; t < off + n; t++) a[t]! *= s1;
+  else for (let t = off; t < off + n; t++) a[t] = a[t]! * s1 * s2;
+}

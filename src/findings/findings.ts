@@ -79,6 +79,16 @@ export function formatNumber(v: number, digits = 6): string {
   return `${mant}e${e}`;
 }
 
+/** Positions of the terms of a relation that matter: contribution above 1e-9 of the largest. */
+export function significantTerms(dep: Dependency): number[] {
+  const big = Math.max(0, ...Array.from(dep.scaled, Math.abs));
+  const out: number[] = [];
+  dep.scaled.forEach((v, t) => {
+    if (Math.abs(v) > 1e-9 * big) out.push(t);
+  });
+  return out;
+}
+
 /**
  * The relation of a dependency in the user's labels, e.g. "Temp °F = 32 + 1.8 × Temp °C".
  * Terms whose contribution is below 1e-9 of the largest are left out.
@@ -86,11 +96,8 @@ export function formatNumber(v: number, digits = 6): string {
 export function relationParts(dep: Dependency, labels: readonly string[], interceptCol: number): Part[] {
   const parts: Part[] = [label(labels[dep.column] ?? `column ${dep.column + 1}`), text(" = ")];
   if (dep.zero) return [label(labels[dep.column] ?? ""), text(" is zero in every used row")];
-  const contrib = Array.from(dep.scaled, (v) => Math.abs(v));
-  const big = Math.max(0, ...contrib);
   let first = true;
-  for (let t = 0; t < dep.on.length; t++) {
-    if (!(contrib[t]! > 1e-9 * big)) continue;
+  for (const t of significantTerms(dep)) {
     const c = dep.coef[t]!;
     const col = dep.on[t]!;
     const mag = formatNumber(Math.abs(c), 6);
@@ -135,6 +142,7 @@ export function findings(input: FindingsInput): Finding[] {
   const rowNo = input.rowNumber ?? ((i: number) => i + 1);
   const out: Finding[] = [];
   const st = fit.statistics();
+  const exact = isExactFit(fit);
   const p = fit.parameters;
   const n = fit.n;
   const interceptCol = fit.spec.intercept ? 0 : -1;
@@ -171,7 +179,8 @@ export function findings(input: FindingsInput): Finding[] {
       });
       continue;
     }
-    const onlyIntercept = dep.on.length > 0 && Array.from(dep.on).every((c, t) => c === interceptCol || Math.abs(dep.scaled[t]!) <= 1e-9 * Math.max(...Array.from(dep.scaled, Math.abs)));
+    const terms = significantTerms(dep).map((t) => dep.on[t]!);
+    const onlyIntercept = dep.on.length > 0 && terms.every((c) => c === interceptCol);
     if (onlyIntercept && interceptCol >= 0) {
       out.push({
         id: "duplicates-intercept",
@@ -182,7 +191,7 @@ export function findings(input: FindingsInput): Finding[] {
       });
       continue;
     }
-    const others = Array.from(dep.on).filter((c, t) => c !== interceptCol && Math.abs(dep.scaled[t]!) > 1e-9 * Math.max(...Array.from(dep.scaled, Math.abs)));
+    const others = terms.filter((c) => c !== interceptCol);
     out.push({
       id: "dependent-columns",
       severity: "warning",
@@ -262,7 +271,7 @@ export function findings(input: FindingsInput): Finding[] {
       done: [text("Standard errors, tests and intervals show #N/A.")],
       advice: [text("Add rows or use fewer parameters.")],
     });
-  } else if (st.residualDf > 0 && typeof st.rss === "number" && isExactFit(fit)) {
+  } else if (st.residualDf > 0 && typeof st.rss === "number" && exact) {
     out.push({
       id: "exact-fit",
       severity: "note",
@@ -272,7 +281,7 @@ export function findings(input: FindingsInput): Finding[] {
     });
   }
 
-  if (st.residualDf > 0 && !isExactFit(fit)) {
+  if (st.residualDf > 0 && !exact) {
     const lev = fit.leverageUsed();
     const stud = fit.studentizedUsed();
     const lim = (2 * fit.rank) / n;

@@ -7,7 +7,7 @@ import { LsqError } from "../core/errors";
 import { MAX_DEGREE, RowStatus } from "../core/design";
 import { ContentCache } from "./cache";
 import { SheetError, type ErrorCodeText } from "./cellerror";
-import { CellKind, KIND_WORDS, hashRange, rangeEquals, readBlock, readBoolean, readNumber, shapeOf, type Block } from "./values";
+import { KIND_WORDS, hashRange, rangeEquals, readBlock, readBoolean, readNumber, shapeOf, type Block } from "./values";
 
 /** Documented size limits: above these the functions answer #NUM! instead of freezing the host. */
 export const LIMITS = {
@@ -178,4 +178,3 @@ export function requireEnoughRows(model: Model): void {
   if (fit.n < fit.parameters) throw new SheetError("#N/A", `only ${fit.n} usable row${fit.n === 1 ? "" : "s"} for ${fit.parameters} parameters; add rows or use fewer columns (LSQ.CHECK explains)`);
 }
 
-export { CellKind };

@@ -12,7 +12,7 @@
 /* global Excel, Office */
 import { lookup, type FormulaRecord } from "../functions/registry";
 import { defaultLabels, getModel, toSheetError } from "../functions/model";
-import { el, renderFit } from "./render";
+import { el, outputRegion, renderFit } from "./render";
 import { EXAMPLES } from "./examples";
 
 function splitAddress(a: string): { sheet: string; local: string } | null {
@@ -56,10 +56,7 @@ export function startExcel(app: HTMLElement): void {
   const status = el("p", "Select a cell that holds an LSQ formula, or one of its results.", "message");
   status.id = "status";
   app.appendChild(status);
-  const out = el("div", undefined, "output");
-  out.id = "output";
-  out.setAttribute("aria-live", "polite");
-  app.appendChild(out);
+  const out = app.appendChild(outputRegion());
 
   insert.addEventListener("click", () => {
     insertExample().catch((e: unknown) => (status.textContent = `Could not insert the example: ${e instanceof Error ? e.message : String(e)}`));

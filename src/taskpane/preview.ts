@@ -5,7 +5,7 @@
  */
 import { EXAMPLES, type Example } from "./examples";
 import { parseTable, type Table } from "./parse";
-import { el, renderFit } from "./render";
+import { el, outputRegion, renderFit } from "./render";
 import { defaultLabels, getModel } from "../functions/model";
 import { toSheetError } from "../functions/model";
 
@@ -64,10 +64,7 @@ export function startPreview(app: HTMLElement): void {
   go.type = "submit";
   form.appendChild(go);
 
-  const out = el("div", undefined, "output");
-  out.id = "output";
-  out.setAttribute("aria-live", "polite");
-  app.appendChild(out);
+  const out = app.appendChild(outputRegion());
 
   const refreshWeights = (t: Table, chosen?: string): void => {
     weights.replaceChildren(new Option("none", ""));

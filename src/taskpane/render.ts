@@ -23,6 +23,14 @@ function qText(q: Quantity, digits = 6): string {
   return typeof q === "number" ? formatNumber(q, digits) : "n/a";
 }
 
+/** The live region where a fit is rendered (announced to screen readers when it changes). */
+export function outputRegion(): HTMLElement {
+  const out = el("div", undefined, "output");
+  out.id = "output";
+  out.setAttribute("aria-live", "polite");
+  return out;
+}
+
 /** Render finding parts as text nodes (labels emphasised). */
 function renderParts(parent: HTMLElement, parts: readonly Part[]): void {
   for (const p of parts) {
