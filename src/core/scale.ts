@@ -6,14 +6,22 @@
 
 const buf = new DataView(new ArrayBuffer(8));
 
+/** 2^e built from its bit pattern (normal e) or by one exact scaling (subnormal e). */
+function pow2Bits(e: number): number {
+  if (e < -1022) return pow2Bits(e + 64) * 5.421010862427522e-20; // 2^-64, exact for a subnormal result
+  buf.setUint32(0, (e + 1023) << 20);
+  buf.setUint32(4, 0);
+  return buf.getFloat64(0);
+}
+
+/** Every power of two a double holds, 2^-1074 … 2^1023, so pow2 is one lookup in hot loops. */
+const POW2 = Float64Array.from({ length: 1023 + 1074 + 1 }, (_, i) => pow2Bits(i - 1074));
+
 /** 2^e as a double, exact for every integer e in [-1074, 1023]; 0 or Infinity outside. */
 export function pow2(e: number): number {
   if (e > 1023) return Infinity;
   if (e < -1074) return 0;
-  if (e < -1022) return pow2(e + 64) * 5.421010862427522e-20; // 2^-64, exact for a subnormal result
-  buf.setUint32(0, (e + 1023) << 20);
-  buf.setUint32(4, 0);
-  return buf.getFloat64(0);
+  return POW2[(e + 1074) | 0]!;
 }
 
 /**
