@@ -7,7 +7,7 @@ import { LsqError } from "../core/errors";
 import { MAX_DEGREE, RowStatus } from "../core/design";
 import { ContentCache } from "./cache";
 import { SheetError, type ErrorCodeText } from "./cellerror";
-import { KIND_WORDS, hashRange, rangeEquals, readBlock, readBoolean, readNumber, shapeOf, type Block } from "./values";
+import { KIND_WORDS, rangeEquals, sampleHash, readBlock, readBoolean, readNumber, shapeOf, type Block } from "./values";
 
 /** Documented size limits: above these the functions answer #NUM! instead of freezing the host. */
 export const LIMITS = {
@@ -105,14 +105,15 @@ export function getModel(yArg: unknown, xArg: unknown, interceptArg: unknown, we
   const p = (intercept ? 1 : 0) + (degree >= 2 ? degree : k);
   checkSize(m, k, hasW, p);
 
-  // Look the input up by its content, read straight from the 2-D arrays: a repeated input (the
-  // same ranges in several LSQ formulas) is neither converted nor stored again.
+  // Look the input up by its content, read straight from the 2-D arrays: a hash of a sample of the
+  // cells picks candidates and a comparison of every cell confirms a hit, so a repeated input (the
+  // same ranges in several LSQ formulas) costs one pass over its cells and is not converted again.
   const flags = `${intercept ? 1 : 0}|${degree}|${m}|${k}|${transpose ? 1 : 0}|${yAsRow ? 1 : 0}|${hasW ? (wAsRow ? 2 : 1) : 0}`;
   let h = 0x811c9dc5;
   for (let i = 0; i < flags.length; i++) h = Math.imul(h ^ flags.charCodeAt(i), 0x01000193);
-  h = hashRange(yArg as unknown[][], h);
-  h = hashRange(xArg as unknown[][], h);
-  if (hasW) h = hashRange(weightsArg as unknown[][], h);
+  h = sampleHash(yArg as unknown[][], h);
+  h = sampleHash(xArg as unknown[][], h);
+  if (hasW) h = sampleHash(weightsArg as unknown[][], h);
   const hash = h >>> 0;
   const found = cache.find(hash, (key) => {
     if (key.flags !== flags) return false;

@@ -137,39 +137,57 @@ function kindOf(c: unknown): CellKind {
   return CellKind.Error;
 }
 
+/** Cells read by `sampleHash`, at most (evenly spaced through the range, corners included). */
+export const HASH_SAMPLE = 4096;
+
 /**
- * FNV-1a hash of a rectangular range's content as readBlock would store it (each cell's 64-bit
- * value and its kind), mixed into `h`, read straight from the 2-D array without converting it.
+ * FNV-1a hash of a sample of a rectangular range's content as readBlock would store it (each
+ * sampled cell's 64-bit value and its kind), mixed into `h`, read straight from the 2-D array.
+ * It only picks candidates: a cache hit is always confirmed by `rangeEquals` over every cell, so
+ * two ranges that differ only in unsampled cells never share a result, and the one full pass over
+ * the arguments on a hit is that comparison.
  */
-export function hashRange(v: unknown[][], h: number): number {
-  for (let i = 0; i < v.length; i++) {
-    const row = v[i]!;
-    for (let j = 0; j < row.length; j++) {
-      const c = row[j];
-      if (typeof c === "number" && c === c) {
-        scratch[0] = c;
-        h = Math.imul(h ^ scratchBits[0]!, 0x01000193);
-        h = Math.imul(h ^ scratchBits[1]!, 0x01000193);
-      } else h = Math.imul(h ^ (0x100 + kindOf(c)), 0x01000193);
-    }
-  }
+export function sampleHash(v: unknown[][], h: number): number {
+  const rows = v.length;
+  const cols = rows > 0 ? v[0]!.length : 0;
+  const n = rows * cols;
+  const step = Math.max(1, Math.floor(n / HASH_SAMPLE));
+  for (let t = 0; t < n; t += step) h = mixCell(v[Math.floor(t / cols)]![t % cols], h);
+  if (n > 0) h = mixCell(v[rows - 1]![cols - 1], h);
   return h;
 }
 
-/** Does the 2-D array hold exactly what `b` stores (value bits and kinds; transposed as readBlock)? */
+function mixCell(c: unknown, h: number): number {
+  if (typeof c === "number" && c === c) {
+    scratch[0] = c;
+    h = Math.imul(h ^ scratchBits[0]!, 0x01000193);
+    return Math.imul(h ^ scratchBits[1]!, 0x01000193);
+  }
+  return Math.imul(h ^ (0x100 + kindOf(c)), 0x01000193);
+}
+
+/**
+ * Does the 2-D array hold exactly what `b` stores (value bits and kinds; transposed as readBlock)?
+ * A number cell matches when it equals the stored value (a stored missing cell is NaN, so equality
+ * also proves the stored kind is a number) and, for zeros, has the same sign.
+ */
 export function rangeEquals(v: unknown[][], b: Block, transpose: boolean): boolean {
   const rows = b.rows;
-  const bits = new Uint32Array(b.data.buffer, b.data.byteOffset, b.data.length * 2);
+  const data = b.data;
   for (let i = 0; i < v.length; i++) {
     const row = v[i]!;
-    for (let j = 0; j < row.length; j++) {
-      const at = transpose ? i * rows + j : j * rows + i;
+    const n = row.length;
+    // Element (i, j) of the range is element (i, j) of the block, or (j, i) when transposed.
+    let at = transpose ? i * rows : i;
+    const stride = transpose ? 1 : rows;
+    for (let j = 0; j < n; j++, at += stride) {
       const c = row[j];
-      if (typeof c === "number" && c === c) {
-        if (b.kinds[at] !== CellKind.Number) return false;
-        scratch[0] = c;
-        if (scratchBits[0] !== bits[2 * at] || scratchBits[1] !== bits[2 * at + 1]) return false;
-      } else if (b.kinds[at] !== kindOf(c)) return false;
+      if (typeof c === "number" && c === data[at]) {
+        if (c === 0 && 1 / c !== 1 / data[at]!) return false;
+        continue;
+      }
+      if (typeof c === "number" && c === c) return false; // a different number
+      if (b.kinds[at] !== kindOf(c)) return false;
     }
   }
   return true;
