@@ -37,7 +37,8 @@ import { columnOf, columnView, ddGram, refineAugmented, residualUpdate, type Col
 import { exponentOf, pow2, scaleArrayByPow2, scaleByPow2 } from "./scale";
 import { twoProd, twoSum, type DD } from "./dd";
 import { fUpper, tQuantile, tTwoSided } from "./distributions";
-import { conditionNumber } from "./condition";
+import { conditionNumber, type Conditioning } from "./condition";
+import { splitGram, splitGramBound } from "./gram";
 
 /** How a non-identifiable design column depends on the kept columns before it. */
 export interface Dependency {
@@ -143,7 +144,7 @@ export class LeastSquaresFit {
   private studCache: Float64Array | null = null;
   private infCache: InfluenceRow[] | null = null;
   private statsCache: FitStatistics | null = null;
-  private condCache: { value: number; weakest: Float64Array } | null = null;
+  private condCache: Conditioning | null = null;
   private outCache: { fitted: Float64Array; resid: Float64Array } | null = null;
 
   constructor(spec: ModelSpec) {
@@ -428,8 +429,13 @@ export class LeastSquaresFit {
     if (this.covCache) return this.covCache;
     const r = this.rank;
     let out: Float64Array;
-    if (r > 0 && this.condition().value <= 1e7) {
-      out = refineCovarianceGram(this.qr, ddGram(this.design, this.qr.kept, r), r);
+    const cond = r > 0 ? this.condition() : null;
+    if (cond && cond.value <= 1e7) {
+      // The fast Gram matrix when its proven error, amplified by ‖G⁻¹‖ = 1/σ_min², stays below
+      // ε/16 (well-conditioned designs); otherwise the double-double one.
+      const fast = splitGramBound(this.n, r, !!this.design.lo) <= (EPS / 16) * cond.sigmaMin * cond.sigmaMin;
+      const G = fast ? splitGram(this.design, this.qr.kept, r) : ddGram(this.design, this.qr.kept, r);
+      out = refineCovarianceGram(this.qr, G, r);
     } else {
       const c = new Float64Array(r * r);
       for (let k = 0; k < r; k++) c[k * r + k] = 1;
@@ -608,7 +614,7 @@ export class LeastSquaresFit {
   }
 
   /** Condition number (2-norm) of the kept design with columns scaled to unit length, and the weakest direction. */
-  condition(): { value: number; weakest: Float64Array } {
+  condition(): Conditioning {
     if (!this.condCache) this.condCache = conditionNumber(this.qr);
     return this.condCache;
   }

@@ -1,0 +1,202 @@
+/**
+ * A fast Gram matrix G = AᵀA with a proven error bound, for refining the covariance of
+ * well-conditioned designs (the double-double `ddGram` in refine.ts serves the others).
+ *
+ * Rows are taken in blocks of B = 32. In each block every column value a is split exactly as
+ * a = h + l, where h is a rounded to a multiple of 2^g, with 2^g = 2^-24 · 2^E and 2^E the first
+ * power of two above the block's largest |a| in that column. Then
+ *
+ *     Σ a_i b_i  =  Σ h_i h'_i  +  Σ (a_i l'_i + l_i h'_i)
+ *
+ * - h and h' are integers of at most 24 bits times 2^g and 2^g'; each product is an integer of at
+ *   most 48 bits times 2^(g+g'), so a sum of 32 of them stays below 2^53 of those units and is
+ *   computed **exactly** in double arithmetic, in any order (no error-free transformations);
+ * - the cross sum is about 2^-24 of the total, so its ordinary rounding (γ_64 relative to
+ *   Σ|a l'| + |l h'|) is about 2^-77 of ‖a‖‖b‖.
+ *
+ * Both block sums are added into double-double accumulators with TwoSum. The result carries an
+ * explicit bound on ‖G̃ − G‖_F (Frobenius norm), derived below at `splitGramBound` (it depends
+ * only on the sizes, so a caller can decide before computing); the caller uses it
+ * only when that bound, multiplied by ‖G⁻¹‖, is a small fraction of a unit in the last place.
+ * Per row and pair of columns this costs three multiplications and three additions, against
+ * about twenty operations for a TwoProduct/TwoSum pair in `ddGram`.
+ */
+import { EPS } from "./qr";
+import { columnView, type DDMatrix } from "./refine";
+
+/** Rows per block (with 24-bit high parts, 32 products of 48 bits sum exactly below 2^53). */
+const B = 32;
+/** Bits kept in the high part, relative to the block's largest magnitude. */
+const BITS = 24;
+/** Smallest grid exponent used: tinier values go wholly into the low part (see the bound). */
+const MIN_GRID = -1000;
+
+export interface BoundedGram {
+  /** G as a double-double, nk × nk, symmetric, column-major. */
+  hi: Float64Array;
+  lo: Float64Array;
+  /** A bound on ‖G̃ − G‖_F, with G the exact Gram matrix of the columns. */
+  bound: number;
+}
+
+const f64 = new Float64Array(1);
+const u32 = new Uint32Array(f64.buffer);
+const LITTLE = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
+
+/** The grid exponent g for a block column whose largest magnitude is `max` (≥ 0). */
+function gridExponent(max: number): number {
+  f64[0] = max;
+  const bexp = (u32[LITTLE ? 1 : 0]! >>> 20) & 0x7ff; // biased exponent; 0 for 0 and subnormals
+  // max < 2^E with E = bexp − 1022 (for normal max); subnormal or zero: max < 2^-1022.
+  const E = bexp === 0 ? -1022 : bexp - 1022;
+  return Math.max(E - BITS, MIN_GRID);
+}
+
+/**
+ * The Gram matrix of columns `cols[0..nk)` of A (A = hi + lo, each column of Euclidean length at
+ * most 1, as the engine's equilibrated designs are), with its error bound.
+ */
+export function splitGram(A: DDMatrix, cols: Int32Array, nk: number): BoundedGram {
+  const m = A.m;
+  const { lo } = A;
+  // Accumulators: exact-part sums S1 and cross sums S2, each a double-double.
+  const s1h = new Float64Array(nk * nk);
+  const s1l = new Float64Array(nk * nk);
+  const s2h = new Float64Array(nk * nk);
+  const s2l = new Float64Array(nk * nk);
+  const v = new Float64Array(B * nk);
+  const h = new Float64Array(B * nk);
+  const l = new Float64Array(B * nk);
+  const w = lo ? new Float64Array(B * nk) : null; // low parts of A for this block
+  const views = Array.from(cols.subarray(0, nk), (c) => columnView(A, c));
+  for (let i0 = 0; i0 < m; i0 += B) {
+    const nb = Math.min(B, m - i0);
+    for (let k = 0; k < nk; k++) {
+      const { data, off, scale } = views[k]!;
+      const o = k * B;
+      const src = off + i0;
+      let max = 0;
+      for (let i = 0; i < nb; i++) {
+        const a = data[src + i]! * scale;
+        v[o + i] = a;
+        max = Math.max(max, Math.abs(a));
+      }
+      // σ = 1.5·2^(g+52): a + σ rounds a to a multiple of 2^g (|a| < 2^(g+24) ≪ 2^(g+51)).
+      const g = gridExponent(max);
+      const sigma = 1.5 * 2 ** (g + 52);
+      for (let i = 0; i < nb; i++) {
+        const a = v[o + i]!;
+        const hi = a + sigma - sigma;
+        h[o + i] = hi;
+        l[o + i] = a - hi; // exact: |a − hi| ≤ 2^(g−1) and both are multiples of ulp(a) or 2^g
+      }
+      for (let i = nb; i < B; i++) v[o + i] = h[o + i] = l[o + i] = 0;
+      if (w) {
+        const lo0 = cols[k]! * m + i0;
+        for (let i = 0; i < nb; i++) w[o + i] = lo![lo0 + i]!;
+        for (let i = nb; i < B; i++) w[o + i] = 0;
+      }
+    }
+    // 2 × 2 tiles of pairs (a, a+1) × (b, b+1) with a ≤ b: four columns loaded per row serve four
+    // pairs. A tile on the diagonal also computes (a+1, a), the mirror of (a, a+1); it is stored in
+    // the lower triangle and ignored.
+    for (let b = 0; b < nk; b += 2) {
+      const b1 = Math.min(b + 1, nk - 1); // an odd last column pairs with itself (harmlessly)
+      for (let a = 0; a <= b; a += 2) {
+        const a1 = Math.min(a + 1, nk - 1);
+        const oa = a * B;
+        const oa1 = a1 * B;
+        const ob = b * B;
+        const ob1 = b1 * B;
+        let e00 = 0, e01 = 0, e10 = 0, e11 = 0; // exact sums Σ h h'
+        let c00 = 0, c01 = 0, c10 = 0, c11 = 0; // cross sums Σ a l' + l h'
+        for (let i = 0; i < B; i++) {
+          const va = v[oa + i]!, ha = h[oa + i]!, la = l[oa + i]!;
+          const va1 = v[oa1 + i]!, ha1 = h[oa1 + i]!, la1 = l[oa1 + i]!;
+          const hb = h[ob + i]!, lb = l[ob + i]!;
+          const hb1 = h[ob1 + i]!, lb1 = l[ob1 + i]!;
+          e00 += ha * hb;
+          e01 += ha * hb1;
+          e10 += ha1 * hb;
+          e11 += ha1 * hb1;
+          c00 += va * lb + la * hb;
+          c01 += va * lb1 + la * hb1;
+          c10 += va1 * lb + la1 * hb;
+          c11 += va1 * lb1 + la1 * hb1;
+        }
+        if (w) {
+          // Products with the low parts of A are 2^-53 smaller still: ordinary arithmetic.
+          for (let i = 0; i < B; i++) {
+            c00 += v[oa + i]! * w[ob + i]! + w[oa + i]! * v[ob + i]!;
+            c01 += v[oa + i]! * w[ob1 + i]! + w[oa + i]! * v[ob1 + i]!;
+            c10 += v[oa1 + i]! * w[ob + i]! + w[oa1 + i]! * v[ob + i]!;
+            c11 += v[oa1 + i]! * w[ob1 + i]! + w[oa1 + i]! * v[ob1 + i]!;
+          }
+        }
+        accumulate(s1h, s1l, s2h, s2l, b * nk + a, e00, c00);
+        if (b1 !== b) accumulate(s1h, s1l, s2h, s2l, b1 * nk + a, e01, c01);
+        if (a1 !== a) accumulate(s1h, s1l, s2h, s2l, b * nk + a1, e10, c10);
+        if (a1 !== a && b1 !== b) accumulate(s1h, s1l, s2h, s2l, b1 * nk + a1, e11, c11);
+      }
+    }
+  }
+  // G = S1 + S2 as a double-double, mirrored into both triangles.
+  const gh = new Float64Array(nk * nk);
+  const gl = new Float64Array(nk * nk);
+  for (let b = 0; b < nk; b++)
+    for (let a = 0; a <= b; a++) {
+      const at = b * nk + a;
+      const s = s1h[at]! + s2h[at]!;
+      const bb = s - s1h[at]!;
+      const e = s1h[at]! - (s - bb) + (s2h[at]! - bb) + s1l[at]! + s2l[at]!;
+      const x = s + e;
+      const y = e - (x - s);
+      gh[at] = gh[a * nk + b] = x;
+      gl[at] = gl[a * nk + b] = y;
+    }
+  return { hi: gh, lo: gl, bound: splitGramBound(m, nk, !!lo) };
+}
+
+/** (s1h, s1l) += e exactly (TwoSum) and (s2h, s2l) += c (TwoSum), at entry `at`. */
+function accumulate(s1h: Float64Array, s1l: Float64Array, s2h: Float64Array, s2l: Float64Array, at: number, e: number, c: number): void {
+  let s = s1h[at]!;
+  let t = s + e;
+  let bb = t - s;
+  s1l[at]! += s - (t - bb) + (e - bb);
+  s1h[at] = t;
+  s = s2h[at]!;
+  t = s + c;
+  bb = t - s;
+  s2l[at]! += s - (t - bb) + (c - bb);
+  s2h[at] = t;
+}
+
+/**
+ * The error bound. For one pair of columns a, b (lengths ≤ 1) and one block:
+ * - the exact sum contributes nothing (its products and partial sums are integers below 2^53
+ *   units of 2^(g+g'); if those units fall below the smallest double, each product loses at most
+ *   2^-1074, at most B·2^-1074 per block, covered by the last term below);
+ * - the cross sum has 2B terms (4B with low parts), so it rounds by at most γ_4B·Σ(|a l'| + |l h'|).
+ *   |l| ≤ 2^(g−1) ≤ 2^-24·max|a| (a clamped grid only makes |l| ≤ 2^-1001, covered by the last
+ *   term) and |h'| ≤ (1 + 2^-24)·max|b|, so by Cauchy–Schwarz (max|b| ≤ ‖b_blk‖, Σ|a| ≤ √B‖a_blk‖)
+ *   Σ(|a l'| + |l h'|) ≤ 2^-23·(1 + 2^-23)·√B·‖a_blk‖‖b_blk‖;
+ * - summed over blocks, Σ‖a_blk‖‖b_blk‖ ≤ ‖a‖‖b‖ ≤ 1 (Cauchy–Schwarz again);
+ * - the low parts of A (|lo| ≤ 2^-53·|hi|) add 2B rounded terms below 2^-52·Σ|a||b| and leave out
+ *   Σ lo·lo' ≤ 2^-106: together below 2ε²·‖a‖‖b‖;
+ * - the double-double accumulations: each of the N = ⌈m/B⌉ TwoSums into an accumulator is exact,
+ *   its error term (≤ u·‖a‖‖b‖, u = ε/2, partial sums being bounded by Σ|h h'| or Σ|a l'| + |l h'|)
+ *   is added in ordinary arithmetic to a low part of size ≤ N·u, which rounds by at most N·u²
+ *   each time: ≤ (N² + N)·u² per accumulator, two accumulators, plus the final combination.
+ * The Frobenius norm over nk² pairs with per-pair bound c‖a‖‖b‖ is ≤ c·Σ‖a‖² ≤ c·nk.
+ */
+export function splitGramBound(m: number, nk: number, withLow: boolean): number {
+  const u = EPS / 2;
+  const n = 4 * B;
+  const gamma = (n * u) / (1 - n * u);
+  const cross = gamma * 2 ** -23 * (1 + 2 ** -23) * Math.sqrt(B);
+  const low = withLow ? 2 * EPS * EPS : 0;
+  const N = Math.ceil(m / B);
+  const accumulation = 2 * (N * N + N + 4) * u * u;
+  const tiny = (m + B) * 2 ** -990; // products below the smallest double, clamped grids
+  return nk * (cross + low + accumulation) + nk * nk * tiny;
+}
