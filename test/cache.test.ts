@@ -45,6 +45,26 @@ describe("shared factorization", () => {
       expect(cacheStats().misses).toBe(before + 1);
     }
   });
+  it("a change in a cell the lookup hash does not sample still misses (every cell is compared)", () => {
+    // 5,000 × 2 = 10,000 cells: the hash samples every second cell, so (row 1234, column 2) is
+    // outside the sample. A value, a sign of zero and a kind change there must each miss.
+    const m = 5000;
+    const yy = Array.from({ length: m }, (_, i) => [Math.sin(i) + i / 100]);
+    const xx = Array.from({ length: m }, (_, i) => [i, Math.cos(i)]);
+    const base = L.coef(yy, xx, null, null, null);
+    const changed = (v: unknown) => xx.map((r, i) => (i === 1234 ? [r[0], v] : r));
+    for (const v of [xx[1234]![1]! + 1e-9, "text"]) {
+      const before = cacheStats().misses;
+      const out = L.coef(yy, changed(v), null, null, null);
+      expect(cacheStats().misses).toBe(before + 1);
+      expect(out).not.toEqual(base);
+    }
+    const zero = (v: number) => xx.map((r, i) => (i === 1234 ? [r[0], v] : r));
+    L.coef(yy, zero(0), null, null, null);
+    const before = cacheStats().misses;
+    L.coef(yy, zero(-0), null, null, null);
+    expect(cacheStats().misses).toBe(before + 1);
+  });
   it("compares content on a hit, not only the hash", () => {
     const c = new ContentCache<number>(4);
     const a = { numbers: [Float64Array.from([1, 2])], bytes: [], flags: "a" };
