@@ -32,8 +32,9 @@ import {
   type ModelShape,
   type ModelSpec,
 } from "./design";
-import { EPS, HouseholderQR, nrm2 } from "./qr";
-import { columnOf, columnView, ddGram, refineAugmented, residualUpdate, type ColumnView, type DDMatrix } from "./refine";
+import { EPS, HouseholderQR, nrm2, tmatLength } from "./qr";
+import { Workspace } from "./kernels";
+import { columnOf, columnView, ddGram, REFINE_SCRATCH, refineAugmented, residualUpdate, type ColumnView, type DDMatrix } from "./refine";
 import { exponentOf, pow2, scaleArrayByPow2, scaleByPow2 } from "./scale";
 import { twoProd, twoSum, type DD } from "./dd";
 import { fUpper, tQuantile, tTwoSided } from "./distributions";
@@ -171,10 +172,12 @@ export class LeastSquaresFit {
     let lo: Float64Array | null = null;
     let anyLo = false;
     const cs = new Int32Array(p);
-    let qrInput: Float64Array;
+    // The factor (and the refinement's work vectors) live in a WebAssembly workspace when the
+    // kernels are available (kernels.ts); everything else is the same either way.
+    const ws = Workspace.create(n * p + tmatLength(n, p) + REFINE_SCRATCH * n + 64);
+    const qrInput = ws ? ws.alloc(n * p) : new Float64Array(n * p);
     if (views) {
       hi = new Float64Array(0);
-      qrInput = new Float64Array(n * p);
       views.cols.forEach((v, j) => {
         cs[j] = views.cs[j]!;
         for (let t = 0; t < n; t++) qrInput[j * n + t] = v.data[v.off + t]! * v.scale;
@@ -190,7 +193,7 @@ export class LeastSquaresFit {
         cs[j] = e2 - designPreExp(shape, spec.intercept, this.preExp, j);
         checkFinite(hi, lo, j * n, n, j, spec, shape);
       }
-      qrInput = Float64Array.from(hi);
+      qrInput.set(hi);
     }
     this.cs = cs;
     this.design = views ? { m: n, hi, lo: null, cols: views.cols } : { m: n, hi, lo: anyLo ? lo : null };
@@ -224,7 +227,7 @@ export class LeastSquaresFit {
     this.yHi = yHi;
     this.yLo = yLo;
 
-    this.qr = new HouseholderQR(qrInput, n, p, spec.tolerance);
+    this.qr = new HouseholderQR(qrInput, n, p, spec.tolerance, ws);
     const rank = this.qr.rank;
     const sol = refineAugmented(this.qr, this.design, rank, 1, yHi, yLo, null);
     this.coefScaled = sol.x;

@@ -47,11 +47,17 @@
  * holds the reduced remainder.
  */
 import { LsqError } from "./errors";
+import type { Workspace } from "./kernels";
 
 export const EPS = 2.220446049250313e-16;
 
 /** Reflectors are applied in groups of this many as one block reflector I − V T Vᵀ (compact WY). */
 const GROUP = 4;
+
+/** Doubles needed for the compact-WY factors of an m×p factorization. */
+export function tmatLength(m: number, p: number): number {
+  return Math.ceil(Math.min(m, p) / GROUP) * GROUP * GROUP;
+}
 
 /** Default rank tolerance for an m×p design (see the module comment for why). */
 export function defaultTolerance(m: number, p: number): number {
@@ -84,6 +90,10 @@ export class HouseholderQR {
    * triangular T (GROUP × GROUP, column-major) with H_g ⋯ H_{g+GROUP−1} = I − V T Vᵀ.
    */
   readonly tmat: Float64Array;
+  /** The kept columns while the constructor is still deciding them. */
+  private keptBuilding: number[] | null = null;
+  /** The WebAssembly workspace holding `a` and `tmat`, when the kernels are used. */
+  readonly ws: Workspace | null;
 
   /**
    * Factor `a` (m×p, column-major) in place.
@@ -91,8 +101,10 @@ export class HouseholderQR {
    * @param m - rows (≥ 0)
    * @param p - columns (≥ 0)
    * @param tol - rank tolerance; NaN/undefined = default, 0 = exact zero only, negative = error
+   * @param ws - a WebAssembly workspace holding `a` (the block reflectors then run as kernels);
+   *   it must have room for the compact-WY factors (`tmatLength(m, p)` doubles)
    */
-  constructor(a: Float64Array, m: number, p: number, tol?: number) {
+  constructor(a: Float64Array, m: number, p: number, tol?: number, ws: Workspace | null = null) {
     if (a.length < m * p) throw new LsqError("shape", "design storage is smaller than rows × columns");
     let t = tol === undefined || Number.isNaN(tol) ? defaultTolerance(m, p) : tol;
     if (t < 0) throw new LsqError("range", "the rank tolerance must be zero or positive");
@@ -102,12 +114,14 @@ export class HouseholderQR {
     this.tolerance = t;
     const tau = new Float64Array(Math.min(m, p));
     const kept: number[] = [];
+    this.keptBuilding = kept;
     const dropped: number[] = [];
     const keptBefore = new Int32Array(p);
     const ratio = new Float64Array(p);
     let k = 0;
     const keptNorm = new Float64Array(Math.min(m, p));
-    const tmat = new Float64Array(Math.ceil(Math.min(m, p) / GROUP) * GROUP * GROUP);
+    this.ws = ws && ws.holds(a) ? ws : null;
+    const tmat = this.ws ? this.ws.alloc(tmatLength(m, p)) : new Float64Array(tmatLength(m, p));
     this.tmat = tmat;
     const z = new Float64Array(Math.min(m, p));
     for (let j = 0; j < p; j++) {
@@ -116,7 +130,7 @@ export class HouseholderQR {
       // Left-looking: apply H_0 … H_{k−1} to column j.
       // Complete groups of GROUP reflectors as one block reflector, the rest one at a time.
       const full = k - (k % GROUP);
-      for (let g = 0; g < full; g += GROUP) applyGroup(a, kept, g, m, tmat, a, cj, true);
+      for (let g = 0; g < full; g += GROUP) this.group(g, a, cj, true);
       for (let q = full; q < k; q++) applyReflector(a, kept[q]! * m, q, m, tau[q]!, cj);
       keptBefore[j] = k;
       const rest = k < m ? nrm2(a, cj + k, m - k) : 0;
@@ -145,10 +159,22 @@ export class HouseholderQR {
     }
     this.tau = tau;
     this.kept = Int32Array.from(kept);
+    this.keptBuilding = null;
     this.dropped = Int32Array.from(dropped);
     this.keptBefore = keptBefore;
     this.remainderRatio = ratio;
     this.rank = k;
+  }
+
+  /** Apply the block reflector of group g to c[cOff .. cOff+m): a kernel when both live in the workspace. */
+  private group(g: number, c: Float64Array, cOff: number, transpose: boolean): void {
+    const { ws, a, m } = this;
+    // `kept` is still being built while factoring: read it through the field or the array in use.
+    const kept = this.kept ?? this.keptBuilding!;
+    if (ws && ws.holds(c)) {
+      const base = a.byteOffset;
+      ws.k.group(base + 8 * kept[g]! * m, base + 8 * kept[g + 1]! * m, base + 8 * kept[g + 2]! * m, base + 8 * kept[g + 3]! * m, g, m, this.tmat.byteOffset + 8 * g * GROUP, c.byteOffset + 8 * cOff, transpose ? 1 : 0);
+    } else applyGroup(a, kept, g, m, this.tmat, c, cOff, transpose);
   }
 
   /** R(i, k) for i ≤ k < rank. */
@@ -159,7 +185,7 @@ export class HouseholderQR {
   /** v ← Qᵀ v using the first `nk` reflectors (v has length m, stride 1 from `off`). */
   applyQt(nk: number, v: Float64Array, off = 0): void {
     const full = Math.floor(Math.min(nk, this.rank) / GROUP) * GROUP;
-    for (let g = 0; g < full; g += GROUP) applyGroup(this.a, this.kept, g, this.m, this.tmat, v, off, true);
+    for (let g = 0; g < full; g += GROUP) this.group(g, v, off, true);
     for (let q = full; q < nk; q++) applyReflectorTo(this.a, this.kept[q]! * this.m, q, this.m, this.tau[q]!, v, off);
   }
 
@@ -167,7 +193,7 @@ export class HouseholderQR {
   applyQ(nk: number, v: Float64Array, off = 0): void {
     const full = Math.floor(Math.min(nk, this.rank) / GROUP) * GROUP;
     for (let q = nk - 1; q >= full; q--) applyReflectorTo(this.a, this.kept[q]! * this.m, q, this.m, this.tau[q]!, v, off);
-    for (let g = full - GROUP; g >= 0; g -= GROUP) applyGroup(this.a, this.kept, g, this.m, this.tmat, v, off, false);
+    for (let g = full - GROUP; g >= 0; g -= GROUP) this.group(g, v, off, false);
   }
 
   /** Solve R(0:nk, 0:nk) z = v in place (back substitution); v[off .. off+nk). */

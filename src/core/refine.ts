@@ -70,6 +70,9 @@ export interface RefineResult {
   converged: boolean[];
 }
 
+/** Work vectors of m doubles that refineAugmented takes from a workspace (f, comp, two halves, two slots). */
+export const REFINE_SCRATCH = 6;
+
 export interface RefineOptions {
   maxSteps?: number;
 }
@@ -100,12 +103,19 @@ export function refineAugmented(
   const r = new Float64Array(m * nr);
   const steps = new Int32Array(nr);
   const converged: boolean[] = new Array<boolean>(nr).fill(false);
-  const f = new Float64Array(m);
-  const comp = new Float64Array(m);
+  // Work vectors: in the factor's WebAssembly workspace when it has one (the compensated pass and
+  // the block reflectors then run as kernels), else ordinary arrays.
+  const ws = qr.ws;
+  const mark = ws ? ws.mark() : 0;
+  const vec = (): Float64Array => (ws ? ws.alloc(m) : new Float64Array(m));
+  const f = vec();
+  const comp = vec();
+  const rh = vec();
+  const rl = vec();
+  const colSlot = ws ? ws.alloc(m) : null;
+  const loSlot = ws && A.lo ? ws.alloc(m) : null;
   const g = new Float64Array(nk);
   const dx = new Float64Array(nk);
-  const rh = new Float64Array(m);
-  const rl = new Float64Array(m);
   const cols = qr.kept.subarray(0, nk);
   for (let t = 0; t < nr; t++) {
     const xo = t * nk;
@@ -134,7 +144,15 @@ export function refineAugmented(
           rh[i] = bh;
           rl[i] = b - bh;
         }
-        for (let k = 0; k < nk; k++) g[k] = fusedColumnPass(A, cols[k]!, -x[xo + k]!, f, comp, c ? c[t * nk + k]! : 0, rh, rl, m);
+        for (let k = 0; k < nk; k++) {
+          const c0 = c ? c[t * nk + k]! : 0;
+          if (ws && colSlot) {
+            const cv = columnView(A, cols[k]!);
+            colSlot.set(cv.data.subarray(cv.off, cv.off + m));
+            if (loSlot) loSlot.set(A.lo!.subarray(cols[k]! * m, (cols[k]! + 1) * m));
+            g[k] = ws.k.fused(colSlot.byteOffset, loSlot ? loSlot.byteOffset : 0, cv.scale, -x[xo + k]!, f.byteOffset, comp.byteOffset, rh.byteOffset, rl.byteOffset, m, c0);
+          } else g[k] = fusedColumnPass(A, cols[k]!, -x[xo + k]!, f, comp, c0, rh, rl, m);
+        }
         for (let i = 0; i < m; i++) f[i] = f[i]! + comp[i]!;
       }
       // corrections
@@ -164,6 +182,7 @@ export function refineAugmented(
       prev = nd;
     }
   }
+  if (ws) ws.release(mark);
   return { x, r, steps, converged };
 }
 

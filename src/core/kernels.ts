@@ -1,0 +1,143 @@
+/**
+ * The WebAssembly kernels (kernels.wat, 128-bit SIMD) and the memory they work in.
+ *
+ * A `Workspace` is one WebAssembly memory, sized once for one factorization and never grown (so
+ * JavaScript views of it stay valid), with a bump allocator handing out 16-byte aligned
+ * Float64Array regions. The factor lives in it, so the kernels and the JavaScript code around
+ * them read the same storage; it is released with the factorization by the garbage collector.
+ *
+ * Every kernel has a JavaScript twin (qr.ts, refine.ts, gram.ts) that is used when WebAssembly
+ * with SIMD is not available, or is switched off with `useKernels(false)` (tests compare both).
+ * The module is compiled synchronously when the platform allows it (Node.js; browsers allow
+ * small modules) and otherwise in the background, the JavaScript twins serving until it is ready.
+ */
+import { KERNELS_WASM_BASE64 } from "./kernels.wasm";
+
+export interface KernelExports {
+  fused(col: number, lo: number, scale: number, alpha: number, s: number, comp: number, vh: number, vl: number, m: number, c0: number): number;
+  group(v0: number, v1: number, v2: number, v3: number, r0: number, m: number, t: number, c: number, transpose: number): void;
+}
+
+let compiled: WebAssembly.Module | null = null;
+let enabled = true;
+let failed = false;
+
+/** The module's bytes, decoded from base64 here (no atob: some hosts' sandboxes lack it). */
+function bytes(): Uint8Array<ArrayBuffer> {
+  const text = KERNELS_WASM_BASE64;
+  const code = (c: number): number => (c >= 65 && c <= 90 ? c - 65 : c >= 97 && c <= 122 ? c - 71 : c >= 48 && c <= 57 ? c + 4 : c === 43 ? 62 : 63);
+  let n = (text.length / 4) * 3;
+  if (text.endsWith("==")) n -= 2;
+  else if (text.endsWith("=")) n -= 1;
+  const out = new Uint8Array(new ArrayBuffer(n));
+  for (let i = 0, o = 0; i < text.length; i += 4) {
+    const v = (code(text.charCodeAt(i)) << 18) | (code(text.charCodeAt(i + 1)) << 12) | (code(text.charCodeAt(i + 2)) << 6) | code(text.charCodeAt(i + 3));
+    if (o < n) out[o++] = v >>> 16;
+    if (o < n) out[o++] = (v >>> 8) & 255;
+    if (o < n) out[o++] = v & 255;
+  }
+  return out;
+}
+
+function load(): WebAssembly.Module | null {
+  if (compiled || failed) return compiled;
+  if (typeof WebAssembly !== "object" || typeof WebAssembly.Module !== "function") {
+    failed = true;
+    return null;
+  }
+  const b = bytes();
+  try {
+    if (!WebAssembly.validate(b)) {
+      failed = true; // no SIMD on this platform: JavaScript kernels
+      return null;
+    }
+    compiled = new WebAssembly.Module(b);
+  } catch {
+    // Synchronous compilation refused (e.g. a browser's main thread): compile in the background.
+    failed = true;
+    WebAssembly.compile(b).then(
+      (mod) => {
+        compiled = mod;
+        failed = false;
+      },
+      () => undefined,
+    );
+  }
+  return compiled;
+}
+
+/** Switch the WebAssembly kernels on or off (for tests and benchmarks); returns the previous setting. */
+export function useKernels(on: boolean): boolean {
+  const was = enabled;
+  enabled = on;
+  return was;
+}
+
+/** Whether new workspaces will use the WebAssembly kernels. */
+export function kernelsAvailable(): boolean {
+  return enabled && load() !== null;
+}
+
+const PAGE = 65536;
+
+export class Workspace {
+  readonly memory: WebAssembly.Memory;
+  readonly k: KernelExports;
+  /** The whole memory as doubles. */
+  readonly f64: Float64Array;
+  private top = 2; // offset 0 stays unused, so a zero pointer can mean "none"
+
+  private constructor(memory: WebAssembly.Memory, k: KernelExports) {
+    this.memory = memory;
+    this.k = k;
+    this.f64 = new Float64Array(memory.buffer);
+  }
+
+  /**
+   * A workspace able to hold `doubles` doubles in regions of any sizes (each region is rounded up
+   * to an even count of doubles), or null when the kernels are not available or memory is refused.
+   */
+  static create(doubles: number): Workspace | null {
+    if (!enabled) return null;
+    const mod = load();
+    if (!mod) return null;
+    const pages = Math.ceil((doubles * 8 + 64) / PAGE) + 1;
+    if (pages > 65536) return null;
+    try {
+      const memory = new WebAssembly.Memory({ initial: pages, maximum: pages });
+      const inst = new WebAssembly.Instance(mod, { env: { memory } });
+      return new Workspace(memory, inst.exports as unknown as KernelExports);
+    } catch {
+      return null;
+    }
+  }
+
+  /** A new zeroed region of n doubles (16-byte aligned). Throws when the workspace is full. */
+  alloc(n: number): Float64Array {
+    const start = this.top;
+    const end = start + n + (n & 1);
+    if (end > this.f64.length) throw new Error("workspace exhausted");
+    this.top = end;
+    return this.f64.subarray(start, start + n);
+  }
+
+  /** Current allocation mark, to release everything allocated after it with `release`. */
+  mark(): number {
+    return this.top;
+  }
+
+  release(mark: number): void {
+    this.f64.fill(0, mark, this.top);
+    this.top = mark;
+  }
+
+  /** Byte offset of a region returned by alloc (or of element `at` within it). */
+  ptr(region: Float64Array, at = 0): number {
+    return region.byteOffset + 8 * at;
+  }
+
+  /** Whether `a` lives in this workspace's memory. */
+  holds(a: Float64Array): boolean {
+    return a.buffer === this.memory.buffer;
+  }
+}
