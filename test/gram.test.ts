@@ -8,7 +8,8 @@
  */
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { splitGram } from "../src/core/gram";
+import { gramScratch, splitGram } from "../src/core/gram";
+import { Workspace } from "../src/core/kernels";
 import type { DDMatrix } from "../src/core/refine";
 
 const SHIFT = 1074n;
@@ -89,14 +90,19 @@ function build({ m, nk, withLow, vals }: { m: number; nk: number; withLow: boole
   return { m, hi, lo };
 }
 
-describe("fast Gram matrix with a proven error bound (oracle: exact BigInt arithmetic)", () => {
+/** splitGram in JavaScript, or with the WebAssembly kernel in a fresh workspace. */
+function gram(A: DDMatrix, cols: Int32Array, nk: number, kernel: boolean) {
+  return splitGram(A, cols, nk, kernel ? Workspace.create(gramScratch(nk)) : null);
+}
+
+describe.each([false, true])("fast Gram matrix with a proven error bound (oracle: exact BigInt arithmetic); WebAssembly kernel: %s", (kernel) => {
   it("‖G̃ − G‖_F stays within the bound, and the result is symmetric", () => {
     fc.assert(
       fc.property(matrix, (spec) => {
         const A = build(spec);
         const nk = spec.nk;
         const cols = Int32Array.from({ length: nk }, (_, i) => i);
-        const G = splitGram(A, cols, nk);
+        const G = gram(A, cols, nk, kernel);
         const ref = exactGram(A, nk);
         let fro = 0;
         for (let t = 0; t < nk * nk; t++) fro += diff(G.hi[t]!, G.lo[t]!, ref[t]!) ** 2;
@@ -118,7 +124,7 @@ describe("fast Gram matrix with a proven error bound (oracle: exact BigInt arith
     const vals = Array.from({ length: m * nk }, () => r() * 2 ** Math.round(r() * 40));
     const A = build({ m, nk, withLow: true, vals });
     const cols = Int32Array.from({ length: nk }, (_, i) => i);
-    const G = splitGram(A, cols, nk);
+    const G = gram(A, cols, nk, kernel);
     const ref = exactGram(A, nk);
     let fro = 0;
     for (let t = 0; t < nk * nk; t++) fro += diff(G.hi[t]!, G.lo[t]!, ref[t]!) ** 2;
@@ -131,7 +137,7 @@ describe("fast Gram matrix with a proven error bound (oracle: exact BigInt arith
     const vals = Array.from({ length: m * nk }, (_, t) => (1 - 2 ** -24) * (t % 2 ? 1 : -1) ** Math.floor(t / m));
     const A = build({ m, nk, withLow: false, vals });
     const cols = Int32Array.from({ length: nk }, (_, i) => i);
-    const G = splitGram(A, cols, nk);
+    const G = gram(A, cols, nk, kernel);
     const ref = exactGram(A, nk);
     let fro = 0;
     for (let t = 0; t < nk * nk; t++) fro += diff(G.hi[t]!, G.lo[t]!, ref[t]!) ** 2;

@@ -63,7 +63,7 @@ describe("WebAssembly kernels", () => {
   });
 
   it("block reflectors: the factorization with kernels matches the JavaScript one to rounding", () => {
-    for (const [m, p] of [[5, 5], [9, 8], [200, 13], [1001, 9]]) {
+    for (const [m, p] of [[5, 5], [9, 8], [200, 13], [1001, 9]] as const) {
       const r = rng(m * p);
       const a = new Float64Array(m * p);
       for (let t = 0; t < a.length; t++) a[t] = normal(r);

@@ -39,7 +39,7 @@ import { exponentOf, pow2, scaleArrayByPow2, scaleByPow2 } from "./scale";
 import { twoProd, twoSum, type DD } from "./dd";
 import { fUpper, tQuantile, tTwoSided } from "./distributions";
 import { conditionNumber, type Conditioning } from "./condition";
-import { splitGram, splitGramBound } from "./gram";
+import { gramScratch, splitGram, splitGramBound } from "./gram";
 
 /** How a non-identifiable design column depends on the kept columns before it. */
 export interface Dependency {
@@ -174,7 +174,7 @@ export class LeastSquaresFit {
     const cs = new Int32Array(p);
     // The factor (and the refinement's work vectors) live in a WebAssembly workspace when the
     // kernels are available (kernels.ts); everything else is the same either way.
-    const ws = Workspace.create(n * p + tmatLength(n, p) + REFINE_SCRATCH * n + 64);
+    const ws = Workspace.create(n * p + tmatLength(n, p) + Math.max(REFINE_SCRATCH * n, gramScratch(p)) + 64);
     const qrInput = ws ? ws.alloc(n * p) : new Float64Array(n * p);
     if (views) {
       hi = new Float64Array(0);
@@ -437,7 +437,7 @@ export class LeastSquaresFit {
       // The fast Gram matrix when its proven error, amplified by ‖G⁻¹‖ = 1/σ_min², stays below
       // ε/16 (well-conditioned designs); otherwise the double-double one.
       const fast = splitGramBound(this.n, r, !!this.design.lo) <= (EPS / 16) * cond.sigmaMin * cond.sigmaMin;
-      const G = fast ? splitGram(this.design, this.qr.kept, r) : ddGram(this.design, this.qr.kept, r);
+      const G = fast ? splitGram(this.design, this.qr.kept, r, this.qr.ws) : ddGram(this.design, this.qr.kept, r);
       out = refineCovarianceGram(this.qr, G, r);
     } else {
       const c = new Float64Array(r * r);

@@ -23,6 +23,7 @@
  */
 import { EPS } from "./qr";
 import { columnView, type DDMatrix } from "./refine";
+import type { Workspace } from "./kernels";
 
 /** Rows per block (with 24-bit high parts, 32 products of 48 bits sum exactly below 2^53). */
 const B = 32;
@@ -52,11 +53,22 @@ function gridExponent(max: number): number {
   return Math.max(E - BITS, MIN_GRID);
 }
 
+/** Rows per panel copied into a workspace for the WebAssembly kernel (a multiple of B). */
+const PANEL = 1024;
+
+/** Doubles of workspace that splitGram needs for nk columns. */
+export function gramScratch(nk: number): number {
+  return 2 * nk * PANEL + 4 * B * nk + 4 * nk * nk + nk + 32;
+}
+
 /**
  * The Gram matrix of columns `cols[0..nk)` of A (A = hi + lo, each column of Euclidean length at
- * most 1, as the engine's equilibrated designs are), with its error bound.
+ * most 1, as the engine's equilibrated designs are), with its error bound. With a workspace
+ * (kernels.ts, `gramScratch(nk)` doubles free) the blocks run as a WebAssembly kernel on panels
+ * of rows copied into it; the exact sums are the same and the cross sums stay within the bound.
  */
-export function splitGram(A: DDMatrix, cols: Int32Array, nk: number): BoundedGram {
+export function splitGram(A: DDMatrix, cols: Int32Array, nk: number, ws: Workspace | null = null): BoundedGram {
+  if (ws) return splitGramKernel(A, cols, nk, ws);
   const m = A.m;
   const { lo } = A;
   // Accumulators: exact-part sums S1 and cross sums S2, each a double-double.
@@ -140,7 +152,44 @@ export function splitGram(A: DDMatrix, cols: Int32Array, nk: number): BoundedGra
       }
     }
   }
-  // G = S1 + S2 as a double-double, mirrored into both triangles.
+  return combine(s1h, s1l, s2h, s2l, nk, m, !!lo);
+}
+
+/** splitGram with the blocks in the WebAssembly kernel `gram`. */
+function splitGramKernel(A: DDMatrix, cols: Int32Array, nk: number, ws: Workspace): BoundedGram {
+  const m = A.m;
+  const { lo } = A;
+  const mark = ws.mark();
+  const panel = ws.alloc(nk * PANEL);
+  const lop = lo ? ws.alloc(nk * PANEL) : null;
+  const scales = ws.alloc(nk);
+  const v = ws.alloc(B * nk);
+  const h = ws.alloc(B * nk);
+  const l = ws.alloc(B * nk);
+  const w = ws.alloc(B * nk);
+  const s1h = ws.alloc(nk * nk);
+  const s1l = ws.alloc(nk * nk);
+  const s2h = ws.alloc(nk * nk);
+  const s2l = ws.alloc(nk * nk);
+  for (const a of [s1h, s1l, s2h, s2l]) a.fill(0);
+  const views = Array.from(cols.subarray(0, nk), (c) => columnView(A, c));
+  for (let i0 = 0; i0 < m; i0 += PANEL) {
+    const rows = Math.min(PANEL, m - i0);
+    for (let k = 0; k < nk; k++) {
+      const { data, off, scale } = views[k]!;
+      panel.set(data.subarray(off + i0, off + i0 + rows), k * PANEL);
+      scales[k] = scale;
+      if (lop) lop.set(lo!.subarray(cols[k]! * m + i0, cols[k]! * m + i0 + rows), k * PANEL);
+    }
+    ws.k.gram(panel.byteOffset, lop ? lop.byteOffset : 0, nk, rows, PANEL, scales.byteOffset, v.byteOffset, h.byteOffset, l.byteOffset, w.byteOffset, s1h.byteOffset, s1l.byteOffset, s2h.byteOffset, s2l.byteOffset);
+  }
+  const out = combine(s1h, s1l, s2h, s2l, nk, m, !!lo);
+  ws.release(mark);
+  return out;
+}
+
+/** G = S1 + S2 as a double-double, mirrored into both triangles, with its bound. */
+function combine(s1h: Float64Array, s1l: Float64Array, s2h: Float64Array, s2l: Float64Array, nk: number, m: number, withLow: boolean): BoundedGram {
   const gh = new Float64Array(nk * nk);
   const gl = new Float64Array(nk * nk);
   for (let b = 0; b < nk; b++)
@@ -154,7 +203,7 @@ export function splitGram(A: DDMatrix, cols: Int32Array, nk: number): BoundedGra
       gh[at] = gh[a * nk + b] = x;
       gl[at] = gl[a * nk + b] = y;
     }
-  return { hi: gh, lo: gl, bound: splitGramBound(m, nk, !!lo) };
+  return { hi: gh, lo: gl, bound: splitGramBound(m, nk, withLow) };
 }
 
 /** (s1h, s1l) += e exactly (TwoSum) and (s2h, s2l) += c (TwoSum), at entry `at`. */
