@@ -32,14 +32,15 @@ import {
   type ModelShape,
   type ModelSpec,
 } from "./design";
-import { EPS, HouseholderQR, nrm2, tmatLength } from "./qr";
+import { defaultTolerance, EPS, HouseholderQR, nrm2, tmatLength } from "./qr";
 import { Workspace } from "./kernels";
-import { columnOf, columnView, ddGram, REFINE_SCRATCH, refineAugmented, residualUpdate, type ColumnView, type DDMatrix } from "./refine";
+import { columnOf, columnView, ddGram, RATE, REFINE_SCRATCH, refineAugmented, residualUpdate, type ColumnView, type DDMatrix } from "./refine";
 import { exponentOf, pow2, scaleArrayByPow2, scaleByPow2 } from "./scale";
 import { twoProd, twoSum, type DD } from "./dd";
 import { fUpper, tQuantile, tTwoSided } from "./distributions";
 import { conditionNumber, type Conditioning } from "./condition";
-import { gramScratch, splitGram, splitGramBound } from "./gram";
+import { gramScratch, splitGram, splitGramBound, type BoundedGram } from "./gram";
+import { normalPathEnabled, normalScratch, solveNormal } from "./normal";
 
 /** How a non-identifiable design column depends on the kept columns before it. */
 export interface Dependency {
@@ -124,7 +125,14 @@ export class LeastSquaresFit {
   readonly ys: number;
   /** The exact scaled weighted design (n × p, dd). */
   readonly design: DDMatrix;
+  /**
+   * Householder QR of the design ("householder"), or — on the fast path for well-conditioned
+   * full-rank designs (normal.ts) — of the p × p Cholesky factor of its Gram matrix ("normal");
+   * either way it carries R, the kept columns and the rank decision.
+   */
   readonly qr: HouseholderQR;
+  /** Which path produced the fit (see `qr`). */
+  readonly method: "normal" | "householder";
   /** Refined scaled coefficients for the kept columns (length rank). */
   readonly coefScaled: Float64Array;
   /** Weighted scaled residuals r̃ of the used rows. */
@@ -146,6 +154,8 @@ export class LeastSquaresFit {
   private infCache: InfluenceRow[] | null = null;
   private statsCache: FitStatistics | null = null;
   private condCache: Conditioning | null = null;
+  /** The Gram matrix of the fast path (normal.ts), reused for the covariance. */
+  private fastGram: BoundedGram | null = null;
   private outCache: { fitted: Float64Array; resid: Float64Array } | null = null;
 
   constructor(spec: ModelSpec) {
@@ -172,16 +182,9 @@ export class LeastSquaresFit {
     let lo: Float64Array | null = null;
     let anyLo = false;
     const cs = new Int32Array(p);
-    // The factor (and the refinement's work vectors) live in a WebAssembly workspace when the
-    // kernels are available (kernels.ts); everything else is the same either way.
-    const ws = Workspace.create(n * p + tmatLength(n, p) + Math.max(REFINE_SCRATCH * n, gramScratch(p)) + 64);
-    const qrInput = ws ? ws.alloc(n * p) : new Float64Array(n * p);
     if (views) {
       hi = new Float64Array(0);
-      views.cols.forEach((v, j) => {
-        cs[j] = views.cs[j]!;
-        for (let t = 0; t < n; t++) qrInput[j * n + t] = v.data[v.off + t]! * v.scale;
-      });
+      views.cols.forEach((_v, j) => (cs[j] = views.cs[j]!));
     } else {
       hi = new Float64Array(n * p);
       lo = !!sw || shape.degree >= 2 ? new Float64Array(n * p) : null;
@@ -193,7 +196,6 @@ export class LeastSquaresFit {
         cs[j] = e2 - designPreExp(shape, spec.intercept, this.preExp, j);
         checkFinite(hi, lo, j * n, n, j, spec, shape);
       }
-      qrInput.set(hi);
     }
     this.cs = cs;
     this.design = views ? { m: n, hi, lo: null, cols: views.cols } : { m: n, hi, lo: anyLo ? lo : null };
@@ -227,19 +229,45 @@ export class LeastSquaresFit {
     this.yHi = yHi;
     this.yLo = yLo;
 
-    this.qr = new HouseholderQR(qrInput, n, p, spec.tolerance, ws);
+    const tol = spec.tolerance === undefined || Number.isNaN(spec.tolerance) ? defaultTolerance(n, p) : spec.tolerance;
+    // Fast path first (normal.ts): well-conditioned full-rank designs, with a proven accuracy
+    // check; otherwise Householder QR of the design and augmented-system refinement.
+    const fast = normalPathEnabled() && tol >= 0 ? solveNormal(this.design, n, p, yHi, yLo, tol, Workspace.create(normalScratch(n, p))) : null;
+    let r: Float64Array;
+    if (fast) {
+      this.method = "normal";
+      this.qr = fast.qr;
+      this.fastGram = fast.gram;
+      this.coefScaled = fast.x;
+      this.refineSteps = fast.steps;
+      this.refineConverged = true;
+      r = fast.r;
+    } else {
+      // The factor (and the refinement's work vectors) live in a WebAssembly workspace when the
+      // kernels are available (kernels.ts); everything else is the same either way.
+      const ws = Workspace.create(n * p + tmatLength(n, p) + Math.max(REFINE_SCRATCH * n, gramScratch(p)) + 64);
+      const qrInput = ws ? ws.alloc(n * p) : new Float64Array(n * p);
+      if (views)
+        views.cols.forEach((v, j) => {
+          const { data, off, scale } = v;
+          for (let t = 0, o = j * n; t < n; t++) qrInput[o + t] = data[off + t]! * scale;
+        });
+      else qrInput.set(hi);
+      this.method = "householder";
+      this.qr = new HouseholderQR(qrInput, n, p, tol, ws);
+      const sol = refineAugmented(this.qr, this.design, this.qr.rank, 1, yHi, yLo, null);
+      this.coefScaled = sol.x;
+      this.refineSteps = sol.steps[0] ?? 0;
+      this.refineConverged = sol.converged[0] ?? true;
+      r = sol.r;
+    }
     const rank = this.qr.rank;
-    const sol = refineAugmented(this.qr, this.design, rank, 1, yHi, yLo, null);
-    this.coefScaled = sol.x;
-    this.refineSteps = sol.steps[0] ?? 0;
-    this.refineConverged = sol.converged[0] ?? true;
 
     // Residual: the refined residual block r̃ of the augmented system, which converges to the
     // exact residual whatever the rounding of the coefficients (ỹ − X̃·fl(b̃) would carry that
     // rounding, ~ε‖X̃‖‖b̃‖). One exception: when ỹ − X̃ b̃ is exactly zero in compensated
     // arithmetic the fit is exact and the residual is reported as exactly zero (checked only
     // when the refined residual is already at rounding level).
-    let r = sol.r;
     if (sumSquares(r, 0, n) <= (64 * EPS) ** 2 * sumSquares(yHi, 0, n)) {
       const s = Float64Array.from(yHi);
       const comp = yLo ? Float64Array.from(yLo) : new Float64Array(n);
@@ -433,7 +461,8 @@ export class LeastSquaresFit {
     const r = this.rank;
     let out: Float64Array;
     const cond = r > 0 ? this.condition() : null;
-    if (cond && cond.value <= 1e7) {
+    if (this.fastGram) out = refineCovarianceGram(this.qr, this.fastGram, r);
+    else if (cond && cond.value <= 1e7) {
       // The fast Gram matrix when its proven error, amplified by ‖G⁻¹‖ = 1/σ_min², stays below
       // ε/16 (well-conditioned designs); otherwise the double-double one.
       const fast = splitGramBound(this.n, r, !!this.design.lo) <= (EPS / 16) * cond.sigmaMin * cond.sigmaMin;
@@ -927,7 +956,7 @@ function refineCovarianceGram(qr: HouseholderQR, G: { hi: Float64Array; lo: Floa
       }
       if (step > 0 && !(nd < prev)) break;
       for (let i = 0; i < r; i++) c[o + i]! += col[i]!;
-      if (nd <= EPS * nc || (step > 0 && (nd * nd) / prev <= 0.5 * EPS * nc)) break;
+      if (nd <= EPS * nc || (step > 1 && nd <= RATE * prev && (nd * nd) / prev <= 0.5 * EPS * nc)) break;
       if (step > 0 && nd > 0.5 * prev) break;
       prev = nd;
     }

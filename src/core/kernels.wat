@@ -457,4 +457,150 @@
         (f64.add (f64.sub (local.get $s) (f64.sub (local.get $t) (local.get $bb))) (f64.sub (local.get $e) (local.get $bb)))))
     (f64.store (i32.add (local.get $s2h) (local.get $p)) (local.get $t))
   )
+
+  ;; dot2(col, lo, scale, vh, vl, m, c0, out): out[0] + out[1] = c0 + Σ a_i·(vh_i + vl_i) as a
+  ;; double-double, compensated (Dot2), with a = col·scale (+ lo): the second half of `fused` alone
+  ;; (JavaScript twin: dot2 in refine.ts).
+  (func (export "dot2")
+    (param $col i32) (param $lo i32) (param $scale f64) (param $vh i32) (param $vl i32) (param $m i32) (param $c0 f64)
+    (param $out i32)
+    (local $i i32) (local $off i32) (local $end i32)
+    (local $sc v128) (local $split v128) (local $a v128) (local $t v128) (local $ah v128) (local $alo v128)
+    (local $bh v128) (local $bl v128) (local $q v128) (local $dn v128) (local $cc v128) (local $ds v128) (local $de v128)
+    (local $x f64) (local $y f64) (local $e f64) (local $ta f64) (local $bb f64)
+    (local.set $sc (f64x2.splat (local.get $scale)))
+    (local.set $split (f64x2.splat (f64.const 134217729)))
+    (local.set $ds (f64x2.replace_lane 0 (f64x2.splat (f64.const 0)) (local.get $c0)))
+    (local.set $end (i32.and (local.get $m) (i32.const -2)))
+    (block $done
+      (loop $rows
+        (br_if $done (i32.ge_u (local.get $i) (local.get $m)))
+        (local.set $off (i32.shl (local.get $i) (i32.const 3)))
+        (if (i32.lt_u (local.get $i) (local.get $end))
+          (then
+            (local.set $a (f64x2.mul (v128.load (i32.add (local.get $col) (local.get $off))) (local.get $sc)))
+            (local.set $bh (v128.load (i32.add (local.get $vh) (local.get $off))))
+            (local.set $bl (v128.load (i32.add (local.get $vl) (local.get $off)))))
+          (else
+            (local.set $a (f64x2.mul (v128.load64_zero (i32.add (local.get $col) (local.get $off))) (local.get $sc)))
+            (local.set $bh (v128.load64_zero (i32.add (local.get $vh) (local.get $off))))
+            (local.set $bl (v128.load64_zero (i32.add (local.get $vl) (local.get $off))))))
+        (local.set $t (f64x2.mul (local.get $split) (local.get $a)))
+        (local.set $ah (f64x2.sub (local.get $t) (f64x2.sub (local.get $t) (local.get $a))))
+        (local.set $alo (f64x2.sub (local.get $a) (local.get $ah)))
+        (local.set $q (f64x2.mul (local.get $a) (f64x2.add (local.get $bh) (local.get $bl))))
+        (local.set $dn (f64x2.add (local.get $ds) (local.get $q)))
+        (local.set $cc (f64x2.sub (local.get $dn) (local.get $ds)))
+        (local.set $de
+          (f64x2.add (local.get $de)
+            (f64x2.add
+              (f64x2.add
+                (f64x2.sub (local.get $ds) (f64x2.sub (local.get $dn) (local.get $cc)))
+                (f64x2.sub (local.get $q) (local.get $cc)))
+              (f64x2.add
+                (f64x2.add
+                  (f64x2.add
+                    (f64x2.sub (f64x2.mul (local.get $ah) (local.get $bh)) (local.get $q))
+                    (f64x2.mul (local.get $ah) (local.get $bl)))
+                  (f64x2.mul (local.get $alo) (local.get $bh)))
+                (f64x2.mul (local.get $alo) (local.get $bl))))))
+        (local.set $ds (local.get $dn))
+        (local.set $i (i32.add (local.get $i) (i32.const 2)))
+        (br $rows)))
+    (if (local.get $lo)
+      (then
+        (local.set $i (i32.const 0))
+        (block $ldone
+          (loop $lrows
+            (br_if $ldone (i32.ge_u (local.get $i) (local.get $m)))
+            (local.set $off (i32.shl (local.get $i) (i32.const 3)))
+            (local.set $e (f64.add (local.get $e)
+              (f64.mul (f64.load (i32.add (local.get $lo) (local.get $off)))
+                (f64.add (f64.load (i32.add (local.get $vh) (local.get $off))) (f64.load (i32.add (local.get $vl) (local.get $off)))))))
+            (local.set $i (i32.add (local.get $i) (i32.const 1)))
+            (br $lrows)))))
+    (local.set $x (f64x2.extract_lane 0 (local.get $ds)))
+    (local.set $y (f64x2.extract_lane 1 (local.get $ds)))
+    (local.set $ta (f64.add (local.get $x) (local.get $y)))
+    (local.set $bb (f64.sub (local.get $ta) (local.get $x)))
+    (local.set $e
+      (f64.add
+        (f64.add (f64.sub (local.get $x) (f64.sub (local.get $ta) (local.get $bb))) (f64.sub (local.get $y) (local.get $bb)))
+        (f64.add (f64.add (f64x2.extract_lane 0 (local.get $de)) (f64x2.extract_lane 1 (local.get $de))) (local.get $e))))
+    ;; (ta, e) → normalized double-double (FastTwoSum)
+    (local.set $x (f64.add (local.get $ta) (local.get $e)))
+    (f64.store (local.get $out) (local.get $x))
+    (f64.store offset=8 (local.get $out) (f64.sub (local.get $e) (f64.sub (local.get $x) (local.get $ta))))
+  )
+
+  ;; axpy2(col, lo, scale, alpha, alphaLo, s, comp, m)
+  ;; (s, comp) += a·(alpha + alphaLo) with a = col·scale (+ lo): TwoSum on s, the TwoProduct error of
+  ;; a·alpha and the TwoSum error into comp, and the small products a·alphaLo and lo·alpha (2^-53
+  ;; smaller) added to comp in working precision. The first half of `fused` plus the low part of
+  ;; alpha (JavaScript twin: axpy2 in refine.ts).
+  (func (export "axpy2")
+    (param $col i32) (param $lo i32) (param $scale f64) (param $alpha f64) (param $alphaLo f64)
+    (param $s i32) (param $comp i32) (param $m i32)
+    (local $i i32) (local $off i32) (local $end i32)
+    (local $sc v128) (local $al v128) (local $all v128) (local $xh v128) (local $xl v128) (local $split v128)
+    (local $a v128) (local $t v128) (local $ah v128) (local $alo v128) (local $p v128)
+    (local $si v128) (local $sn v128) (local $bb v128) (local $c v128) (local $lov v128)
+    (local $x f64) (local $ta f64)
+    (local.set $sc (f64x2.splat (local.get $scale)))
+    (local.set $al (f64x2.splat (local.get $alpha)))
+    (local.set $all (f64x2.splat (local.get $alphaLo)))
+    (local.set $split (f64x2.splat (f64.const 134217729)))
+    (local.set $ta (f64.mul (f64.const 134217729) (local.get $alpha)))
+    (local.set $x (f64.sub (local.get $ta) (f64.sub (local.get $ta) (local.get $alpha))))
+    (local.set $xh (f64x2.splat (local.get $x)))
+    (local.set $xl (f64x2.splat (f64.sub (local.get $alpha) (local.get $x))))
+    (local.set $end (i32.and (local.get $m) (i32.const -2)))
+    (block $done
+      (loop $rows
+        (br_if $done (i32.ge_u (local.get $i) (local.get $m)))
+        (local.set $off (i32.shl (local.get $i) (i32.const 3)))
+        (if (i32.lt_u (local.get $i) (local.get $end))
+          (then
+            (local.set $a (f64x2.mul (v128.load (i32.add (local.get $col) (local.get $off))) (local.get $sc)))
+            (local.set $si (v128.load (i32.add (local.get $s) (local.get $off))))
+            (local.set $c (v128.load (i32.add (local.get $comp) (local.get $off))))
+            (local.set $lov (v128.const i64x2 0 0))
+            (if (local.get $lo) (then (local.set $lov (v128.load (i32.add (local.get $lo) (local.get $off)))))))
+          (else
+            (local.set $a (f64x2.mul (v128.load64_zero (i32.add (local.get $col) (local.get $off))) (local.get $sc)))
+            (local.set $si (v128.load64_zero (i32.add (local.get $s) (local.get $off))))
+            (local.set $c (v128.load64_zero (i32.add (local.get $comp) (local.get $off))))
+            (local.set $lov (v128.const i64x2 0 0))
+            (if (local.get $lo) (then (local.set $lov (v128.load64_zero (i32.add (local.get $lo) (local.get $off))))))))
+        (local.set $t (f64x2.mul (local.get $split) (local.get $a)))
+        (local.set $ah (f64x2.sub (local.get $t) (f64x2.sub (local.get $t) (local.get $a))))
+        (local.set $alo (f64x2.sub (local.get $a) (local.get $ah)))
+        (local.set $p (f64x2.mul (local.get $a) (local.get $al)))
+        (local.set $sn (f64x2.add (local.get $si) (local.get $p)))
+        (local.set $bb (f64x2.sub (local.get $sn) (local.get $si)))
+        (local.set $c
+          (f64x2.add
+            (f64x2.add (local.get $c)
+              (f64x2.add
+                (f64x2.add
+                  (f64x2.sub (local.get $si) (f64x2.sub (local.get $sn) (local.get $bb)))
+                  (f64x2.sub (local.get $p) (local.get $bb)))
+                (f64x2.add
+                  (f64x2.add
+                    (f64x2.add
+                      (f64x2.sub (f64x2.mul (local.get $ah) (local.get $xh)) (local.get $p))
+                      (f64x2.mul (local.get $ah) (local.get $xl)))
+                    (f64x2.mul (local.get $alo) (local.get $xh)))
+                  (f64x2.mul (local.get $alo) (local.get $xl)))))
+            (f64x2.add (f64x2.mul (local.get $a) (local.get $all)) (f64x2.mul (local.get $lov) (local.get $al)))))
+        (if (i32.lt_u (local.get $i) (local.get $end))
+          (then
+            (v128.store (i32.add (local.get $s) (local.get $off)) (local.get $sn))
+            (v128.store (i32.add (local.get $comp) (local.get $off)) (local.get $c)))
+          (else
+            (f64.store (i32.add (local.get $s) (local.get $off)) (f64x2.extract_lane 0 (local.get $sn)))
+            (f64.store (i32.add (local.get $comp) (local.get $off)) (f64x2.extract_lane 0 (local.get $c)))))
+        (local.set $i (i32.add (local.get $i) (i32.const 2)))
+        (br $rows)))
+  )
 )

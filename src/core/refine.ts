@@ -19,12 +19,12 @@
  *
  * Starting from r = 0, x = 0 the first step is the ordinary QR solution. A right-hand side
  * stops when its correction is below ε‖x‖, or when the next correction predicted from the
- * observed rate (nd²/prev) is below half of that, or when it no longer shrinks by half (a
+ * observed rate (nd²/prev) is below half of that while that rate is at most √ε, or when it no longer shrinks by half (a
  * correction that grew is not applied), or after `maxSteps`.
  */
 import type { HouseholderQR } from "./qr";
 import { EPS } from "./qr";
-import { SPLITTER } from "./dd";
+import { SPLITTER, type DD } from "./dd";
 
 /**
  * A double-double design with m rows. Column c is hi[c·m + i] (+ lo[c·m + i]); or, when `cols` is
@@ -69,6 +69,12 @@ export interface RefineResult {
   /** Whether each right-hand side met the ε‖x‖ stopping test (false: stagnated or hit the limit). */
   converged: boolean[];
 }
+
+/**
+ * Largest observed contraction (correction / previous correction) for which a refinement may stop
+ * on the predicted next correction instead of a measured one: 2^-26 ≈ √ε.
+ */
+export const RATE = 2 ** -26;
 
 /** Work vectors of m doubles that refineAugmented takes from a workspace (f, comp, two halves, two slots). */
 export const REFINE_SCRATCH = 6;
@@ -173,8 +179,10 @@ export function refineAugmented(
       for (let i = 0; i < m; i++) r[ro + i]! += f[i]!;
       steps[t] = step + 1;
       // Converged when this correction is below ε‖x‖, or when the next one, predicted from the
-      // observed rate of convergence (nd / prev), would be below half of that.
-      if (nd <= EPS * nx || (step > 0 && (nd * nd) / prev <= 0.5 * EPS * nx)) {
+      // observed rate of convergence (nd / prev), would be below half of that — trusted only when
+      // the rate is measured between two corrections (from step 2 on: the first ratio compares a
+      // correction with the solution itself) and is fast (≤ RATE).
+      if (nd <= EPS * nx || (step > 1 && nd <= RATE * prev && (nd * nd) / prev <= 0.5 * EPS * nx)) {
         converged[t] = true;
         break;
       }
@@ -257,6 +265,47 @@ export function residualUpdate(A: DDMatrix, col: number, alpha: number, s: Float
     s[i] = sn;
     comp[i]! += si - (sn - bb) + (p - bb) + pe + (lo ? lo[loOff + i]! * alpha : 0);
   }
+}
+
+/**
+ * c0 + A(:, col)ᵀ v as a double-double (out.hi + out.lo), compensated (Dot2, the low parts of A in
+ * working precision), with v given as Dekker halves vh + vl: the dot-product half of
+ * fusedColumnPass (WebAssembly twin: dot2 in kernels.wat).
+ */
+export function dot2(A: DDMatrix, col: number, vh: Float64Array, vl: Float64Array, m: number, c0: number, out: DD): DD {
+  const { data: hi, off, scale } = columnView(A, col);
+  const lo = A.lo;
+  let ds = c0;
+  let de = 0;
+  for (let i = 0; i < m; i++) {
+    const a = hi[off + i]! * scale;
+    const t = SPLITTER * a;
+    const ah = t - (t - a);
+    const al = a - ah;
+    const bh = vh[i]!;
+    const bl = vl[i]!;
+    const q = a * (bh + bl);
+    const dn = ds + q;
+    const cc = dn - ds;
+    de += ds - (dn - cc) + (q - cc) + (ah * bh - q + ah * bl + al * bh + al * bl);
+    ds = dn;
+  }
+  if (lo) for (let i = 0, o = col * m; i < m; i++) de += lo[o + i]! * (vh[i]! + vl[i]!);
+  const x = ds + de;
+  out.hi = x;
+  out.lo = de - (x - ds);
+  return out;
+}
+
+/**
+ * (s, comp) += A(:, col)·(α + αLo): residualUpdate with a double-double multiplier, the product
+ * with its low part added in working precision (WebAssembly twin: axpy2 in kernels.wat).
+ */
+export function axpy2(A: DDMatrix, col: number, alpha: number, alphaLo: number, s: Float64Array, comp: Float64Array, m: number): void {
+  residualUpdate(A, col, alpha, s, comp, m);
+  if (alphaLo === 0) return;
+  const { data: hi, off, scale } = columnView(A, col);
+  for (let i = 0; i < m; i++) comp[i]! += hi[off + i]! * scale * alphaLo;
 }
 
 /**

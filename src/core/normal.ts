@@ -1,0 +1,261 @@
+/**
+ * The fast path for well-conditioned, full-rank designs: normal equations with a Gram matrix of
+ * proven accuracy, refined in parameter space. No m × p factor is formed or stored.
+ *
+ *  1. G = AᵀA by `splitGram` (gram.ts), with a bound β ≥ ‖G̃ − G‖_F.
+ *  2. R = Cholesky factor of G̃ (double). R is exact for G̃ + E with ‖E‖ ≲ p·ε·‖G‖, the same kind of
+ *     guarantee a Householder R carries, so the engine's one rank decision (qr.ts) is taken by
+ *     running HouseholderQR on R itself: its columns have the lengths of A's columns and the same
+ *     remainders, so the ordered keep-or-flag test is unchanged (with the tolerance of the m × p
+ *     problem).
+ *  3. Accepted only when every column is kept and β·‖G⁻¹‖ = β/σ_min² ≤ ε/16: then the exact
+ *     solution of G̃ x = Aᵀb differs from the least-squares solution by at most ε/16 relative.
+ *     Otherwise the caller falls back to Householder QR with augmented-system refinement.
+ *  4. c = Aᵀb in double-double (compensated dot products), then x ← x + R⁻¹R⁻ᵀ(c − G̃x) with the
+ *     residual in compensated arithmetic and x kept as a double-double, until the correction is
+ *     below the attainable level β/σ_min²·‖x‖.
+ *  5. The residual r = b − A·x in compensated arithmetic. Its error is at most ‖A‖·(β/σ_min²)·‖x‖
+ *     (+ rounding at the ε² level); accepted only when that is below ε·‖r‖ (near-exact fits go to
+ *     the fallback, whose refined residual does not depend on the accuracy of x).
+ *
+ * Passes over the data: one for G (the bulk of the work), one for Aᵀb and one for r, all
+ * WebAssembly kernels when a workspace is given (kernels.ts), else their JavaScript twins.
+ */
+import { conditionNumber } from "./condition";
+import { twoProd, type DD } from "./dd";
+import { gramScratch, splitGram, splitGramBound, type BoundedGram } from "./gram";
+import type { Workspace } from "./kernels";
+import { EPS, HouseholderQR } from "./qr";
+import { axpy2, columnView, dot2, RATE, type DDMatrix } from "./refine";
+import { SPLITTER } from "./dd";
+
+let enabled = true;
+
+/** Switch the fast path on or off (tests compare both paths); returns the previous setting. */
+export function useNormalPath(on: boolean): boolean {
+  const was = enabled;
+  enabled = on;
+  return was;
+}
+
+/** Whether the fit tries the fast path first. */
+export function normalPathEnabled(): boolean {
+  return enabled;
+}
+
+export interface NormalSolution {
+  /** Householder QR of the Cholesky factor (p × p): R, the kept columns, the rank decision. */
+  qr: HouseholderQR;
+  gram: BoundedGram;
+  /** Solution (scaled), rounded to double. */
+  x: Float64Array;
+  /** Residual b − A x (scaled), length n. */
+  r: Float64Array;
+  steps: number;
+}
+
+/** Workspace doubles solveNormal needs for n rows and p columns. */
+export function normalScratch(n: number, p: number): number {
+  return Math.max(gramScratch(p), 6 * n + 16) + 16;
+}
+
+/**
+ * Solve min ‖b − A x‖ for the exact design A (n × p, columns of length ≤ 1) and b = bHi + bLo by
+ * the fast path, or return null when its guarantees do not hold (see the module comment).
+ */
+export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array, bLo: Float64Array | null, tol: number, ws: Workspace | null): NormalSolution | null {
+  if (p === 0 || n < p) return null;
+  const bound = splitGramBound(n, p, !!A.lo);
+  // Even a perfectly conditioned design (σ_min ≤ 1 for unit columns… here lengths ≤ 1) cannot pass
+  // when the bound alone exceeds ε/16.
+  if (bound > EPS / 16) return null;
+  const all = Int32Array.from({ length: p }, (_, j) => j);
+  const gram = splitGram(A, all, p, ws);
+
+  // Cholesky of G̃ (upper R, column-major p × p).
+  const R = new Float64Array(p * p);
+  for (let j = 0; j < p; j++) {
+    for (let i = 0; i < j; i++) {
+      let s = gram.hi[j * p + i]!;
+      for (let k = 0; k < i; k++) s -= R[i * p + k]! * R[j * p + k]!;
+      R[j * p + i] = s / R[i * p + i]!;
+    }
+    let d = gram.hi[j * p + j]!;
+    for (let k = 0; k < j; k++) d -= R[j * p + k]! ** 2;
+    if (!(d > 0)) return null;
+    R[j * p + j] = Math.sqrt(d);
+  }
+  const qr = new HouseholderQR(R, p, p, tol);
+  if (qr.rank < p) return null;
+  const sigmaMin = conditionNumber(qr).sigmaMin;
+  const level = bound / (sigmaMin * sigmaMin); // attainable relative accuracy of x
+  if (!(level <= EPS / 16)) return null;
+
+  // Work vectors (in the workspace when there is one, for the kernels): b's Dekker halves, later
+  // those of the residual; the residual s + comp; a column slot (and its low part).
+  const mark = ws ? ws.mark() : 0;
+  const vec = (): Float64Array => (ws ? ws.alloc(n) : new Float64Array(n));
+  const col = ws ? ws.alloc(n) : null;
+  const lo = ws && A.lo ? ws.alloc(n) : null;
+  const vh = vec();
+  const vl = vec();
+  const s = vec();
+  const comp = vec();
+  const out = ws ? ws.alloc(2) : null;
+  const dd: DD = { hi: 0, lo: 0 };
+  const load = (j: number): { ptr: number; loPtr: number; scale: number } => {
+    const cv = columnView(A, j);
+    col!.set(cv.data.subarray(cv.off, cv.off + n));
+    if (lo) lo.set(A.lo!.subarray(j * n, (j + 1) * n));
+    return { ptr: col!.byteOffset, loPtr: lo ? lo.byteOffset : 0, scale: cv.scale };
+  };
+  const split = (v: Float64Array): void => {
+    for (let i = 0; i < n; i++) {
+      const b = v[i]!;
+      const u = SPLITTER * b;
+      const h = u - (u - b);
+      vh[i] = h;
+      vl[i] = b - h;
+    }
+  };
+  /** (gh, gl) += Aᵀv (double-double), v given by its halves in vh, vl. */
+  const dots = (gh: Float64Array, gl: Float64Array): void => {
+    for (let j = 0; j < p; j++) {
+      if (ws) {
+        const c = load(j);
+        ws.k.dot2(c.ptr, c.loPtr, c.scale, vh.byteOffset, vl.byteOffset, n, 0, out!.byteOffset);
+        dd.hi = out![0]!;
+        dd.lo = out![1]!;
+      } else dot2(A, j, vh, vl, n, 0, dd);
+      const t = gh[j]! + dd.hi;
+      const bb = t - gh[j]!;
+      gl[j]! += gh[j]! - (t - bb) + (dd.hi - bb) + dd.lo;
+      gh[j] = t;
+    }
+  };
+  /** (s, comp) = b − A·(xh + xl), compensated. */
+  const residual = (xh: Float64Array, xl: Float64Array): void => {
+    s.set(bHi);
+    if (bLo) comp.set(bLo);
+    else comp.fill(0);
+    for (let j = 0; j < p; j++) {
+      if (ws) {
+        const c = load(j);
+        ws.k.axpy2(c.ptr, c.loPtr, c.scale, -xh[j]!, -xl[j]!, s.byteOffset, comp.byteOffset, n);
+      } else axpy2(A, j, -xh[j]!, -xl[j]!, s, comp, n);
+    }
+  };
+  const finish = <T>(v: T): T => {
+    if (ws) ws.release(mark);
+    return v;
+  };
+
+  // c = Aᵀb (double-double; the low parts of b give a second, tiny, dot product).
+  const cHi = new Float64Array(p);
+  const cLo = new Float64Array(p);
+  split(bHi);
+  dots(cHi, cLo);
+  if (bLo) {
+    split(bLo);
+    dots(cHi, cLo);
+  }
+
+  // Parameter-space refinement: x ← x + R⁻¹R⁻ᵀ(c − G̃x), x as xh + xl.
+  const xh = new Float64Array(p);
+  const xl = new Float64Array(p);
+  const d = new Float64Array(p);
+  let prev = Infinity;
+  let steps = 0;
+  let converged = false;
+  for (let step = 0; step < 12; step++) {
+    for (let i = 0; i < p; i++) {
+      let s = cHi[i]!;
+      let e = cLo[i]!;
+      for (let k = 0; k < p; k++) {
+        const g = gram.hi[k * p + i]!;
+        twoProd(g, -xh[k]!, dd);
+        const sn = s + dd.hi;
+        const bb = sn - s;
+        e += s - (sn - bb) + (dd.hi - bb) + dd.lo - gram.lo[k * p + i]! * xh[k]! - g * xl[k]!;
+        s = sn;
+      }
+      d[i] = s + e;
+    }
+    qr.solveRt(p, d);
+    qr.solveR(p, d);
+    let nd = 0;
+    let nx = 0;
+    for (let i = 0; i < p; i++) {
+      nd = Math.max(nd, Math.abs(d[i]!));
+      nx = Math.max(nx, Math.abs(xh[i]!));
+    }
+    if (step > 0 && !(nd < prev)) break;
+    for (let i = 0; i < p; i++) {
+      const s = xh[i]! + d[i]!;
+      const bb = s - xh[i]!;
+      xl[i]! += xh[i]! - (s - bb) + (d[i]! - bb);
+      xh[i] = s;
+    }
+    steps = step + 1;
+    // Converged when this correction, or the next one predicted from the observed rate, is below
+    // the attainable level.
+    if (step > 0 && (nd <= 0.5 * level * nx || (step > 1 && nd <= RATE * prev && (nd * nd) / prev <= 0.25 * level * nx))) {
+      converged = true;
+      break;
+    }
+    prev = nd;
+  }
+  if (!converged) return finish(null);
+  // Normalize x and check that a correction below the attainable level was reached.
+  let nx = 0;
+  for (let i = 0; i < p; i++) {
+    const s = xh[i]! + xl[i]!;
+    xl[i] = xl[i]! - (s - xh[i]!);
+    xh[i] = s;
+    nx = Math.max(nx, Math.abs(s));
+  }
+
+  // One correction with the true residual (corrected seminormal equations): r = b − A x and
+  // g = Aᵀr in compensated arithmetic, x ← x + R⁻¹R⁻ᵀg. It contracts x's error — at most
+  // level·‖x‖ from the Gram matrix's bound — by ρ = ‖I − (RᵀR)⁻¹AᵀA‖ ≤ (cholesky + β)/σ_min², so the
+  // coefficients no longer depend on the Gram matrix's rounding to first order.
+  residual(xh, xl);
+  const gh = new Float64Array(p);
+  const gl = new Float64Array(p);
+  split(s);
+  dots(gh, gl);
+  split(comp);
+  dots(gh, gl);
+  let ng = 0;
+  for (let i = 0; i < p; i++) {
+    d[i] = gh[i]! + gl[i]!;
+    ng = Math.max(ng, Math.abs(d[i]!));
+  }
+  qr.solveRt(p, d);
+  qr.solveR(p, d);
+  for (let i = 0; i < p; i++) {
+    const t = xh[i]! + d[i]!;
+    const bb = t - xh[i]!;
+    const e = xl[i]! + (xh[i]! - (t - bb) + (d[i]! - bb));
+    xh[i] = t + e;
+    xl[i] = e - (xh[i]! - t);
+  }
+  residual(xh, xl);
+  const r = new Float64Array(n);
+  let rr = 0;
+  for (let i = 0; i < n; i++) {
+    const v = s[i]! + comp[i]!;
+    r[i] = v;
+    rr += v * v;
+  }
+  finish(null);
+  // Error of x after the correction (2-norms; ‖A‖₂ ≤ √p for columns of length ≤ 1, ‖x‖₂ ≤ √p·max|x|):
+  // ρ·(level·‖x‖) + ‖(RᵀR)⁻¹‖·(rounding of g: u·‖g‖ plus the compensated dot products' n²u²·‖A‖‖r‖).
+  const u = EPS / 2;
+  const rho = (2 * p * (p + 1) * u + bound) / (sigmaMin * sigmaMin);
+  const xErr = rho * level * Math.sqrt(p) * nx + (u * Math.sqrt(p) * ng + n * n * u * u * Math.sqrt(p * rr)) / (sigmaMin * sigmaMin) + u * u * Math.sqrt(p) * nx;
+  // The residual's error is at most ‖A‖·xErr (+ the compensated pass's own ε²-level rounding):
+  // accept when that is within one unit of roundoff of ‖r‖.
+  if (!(rho < 0.5 && Math.sqrt(p) * xErr <= EPS * Math.sqrt(rr))) return null;
+  return { qr, gram, x: Float64Array.from(xh), r, steps: steps + 1 };
+}
