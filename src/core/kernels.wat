@@ -458,12 +458,13 @@
     (f64.store (i32.add (local.get $s2h) (local.get $p)) (local.get $t))
   )
 
-  ;; dot2(col, lo, scale, vh, vl, m, c0, out): out[0] + out[1] = c0 + Σ a_i·(vh_i + vl_i) as a
-  ;; double-double, compensated (Dot2), with a = col·scale (+ lo): the second half of `fused` alone
-  ;; (JavaScript twin: dot2 in refine.ts).
+  ;; dot2(col, lo, scale, vh, vl, m, c0, out, vlo): out[0] + out[1] = c0 + Σ a_i·(vh_i + vl_i + vlo_i)
+  ;; as a double-double, compensated (Dot2), with a = col·scale (+ lo) and vlo (when ≠ 0) a low part
+  ;; of v taken in working precision: the second half of `fused` alone (JavaScript twin: dot2 in
+  ;; refine.ts).
   (func (export "dot2")
     (param $col i32) (param $lo i32) (param $scale f64) (param $vh i32) (param $vl i32) (param $m i32) (param $c0 f64)
-    (param $out i32)
+    (param $out i32) (param $vlo i32)
     (local $i i32) (local $off i32) (local $end i32)
     (local $sc v128) (local $split v128) (local $a v128) (local $t v128) (local $ah v128) (local $alo v128)
     (local $bh v128) (local $bl v128) (local $q v128) (local $dn v128) (local $cc v128) (local $ds v128) (local $de v128)
@@ -519,6 +520,19 @@
                 (f64.add (f64.load (i32.add (local.get $vh) (local.get $off))) (f64.load (i32.add (local.get $vl) (local.get $off)))))))
             (local.set $i (i32.add (local.get $i) (i32.const 1)))
             (br $lrows)))))
+    (if (local.get $vlo)
+      (then
+        (local.set $i (i32.const 0))
+        (block $vdone
+          (loop $vrows
+            (br_if $vdone (i32.ge_u (local.get $i) (local.get $m)))
+            (local.set $off (i32.shl (local.get $i) (i32.const 3)))
+            (local.set $e (f64.add (local.get $e)
+              (f64.mul
+                (f64.mul (f64.load (i32.add (local.get $col) (local.get $off))) (local.get $scale))
+                (f64.load (i32.add (local.get $vlo) (local.get $off))))))
+            (local.set $i (i32.add (local.get $i) (i32.const 1)))
+            (br $vrows)))))
     (local.set $x (f64x2.extract_lane 0 (local.get $ds)))
     (local.set $y (f64x2.extract_lane 1 (local.get $ds)))
     (local.set $ta (f64.add (local.get $x) (local.get $y)))

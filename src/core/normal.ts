@@ -28,6 +28,14 @@ import type { Workspace } from "./kernels";
 import { EPS, HouseholderQR } from "./qr";
 import { axpy2, columnView, dot2, RATE, type DDMatrix } from "./refine";
 import { SPLITTER } from "./dd";
+import { exponentOf, pow2 } from "./scale";
+
+/** The leading p × p block of a q × q column-major matrix. */
+function block(a: Float64Array, q: number, p: number): Float64Array {
+  const out = new Float64Array(p * p);
+  for (let j = 0; j < p; j++) out.set(a.subarray(j * q, j * q + p), j * p);
+  return out;
+}
 
 let enabled = true;
 
@@ -56,7 +64,7 @@ export interface NormalSolution {
 
 /** Workspace doubles solveNormal needs for n rows and p columns. */
 export function normalScratch(n: number, p: number): number {
-  return Math.max(gramScratch(p), 6 * n + 16) + 16;
+  return Math.max(gramScratch(p + 1), 6 * n + 16) + 16;
 }
 
 /**
@@ -65,12 +73,27 @@ export function normalScratch(n: number, p: number): number {
  */
 export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array, bLo: Float64Array | null, tol: number, ws: Workspace | null): NormalSolution | null {
   if (p === 0 || n < p) return null;
-  const bound = splitGramBound(n, p, !!A.lo);
-  // Even a perfectly conditioned design (σ_min ≤ 1 for unit columns… here lengths ≤ 1) cannot pass
-  // when the bound alone exceeds ε/16.
+  // For an exact design and right-hand side, b joins the Gram matrix as column p (scaled by a power
+  // of two to length ≤ 1), so Aᵀb comes out of the same pass; otherwise it is a separate pass.
+  const withB = !A.lo && !bLo;
+  const q = withB ? p + 1 : p;
+  const bound = splitGramBound(n, q, !!A.lo);
+  // Even a perfectly conditioned design cannot pass when the bound alone exceeds ε/16.
   if (bound > EPS / 16) return null;
-  const all = Int32Array.from({ length: p }, (_, j) => j);
-  const gram = splitGram(A, all, p, ws);
+  let eb = 0;
+  let ext: DDMatrix = A;
+  if (withB) {
+    let bb = 0;
+    for (let i = 0; i < n; i++) bb += bHi[i]! * bHi[i]!;
+    eb = -exponentOf(Math.sqrt(bb)) - 1; // ‖b·2^eb‖ < 1 (one spare binade for rounding in bb)
+    const cols = Array.from({ length: p }, (_, j) => columnView(A, j));
+    cols.push({ data: bHi, off: 0, scale: pow2(eb) });
+    ext = { m: n, hi: A.hi, lo: null, cols };
+  }
+  const all = Int32Array.from({ length: q }, (_, j) => j);
+  const full = splitGram(ext, all, q, ws);
+  // The p × p block is G̃ = AᵀA; with b joined, column p holds Aᵀb·2^eb.
+  const gram: BoundedGram = withB ? { hi: block(full.hi, q, p), lo: block(full.lo, q, p), bound: full.bound } : full;
 
   // Cholesky of G̃ (upper R, column-major p × p).
   const R = new Float64Array(p * p);
@@ -118,15 +141,23 @@ export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array
       vl[i] = b - h;
     }
   };
-  /** (gh, gl) += Aᵀv (double-double), v given by its halves in vh, vl. */
-  const dots = (gh: Float64Array, gl: Float64Array): void => {
+  /** (gh, gl) += Aᵀv (double-double), v given by its halves in vh, vl plus a low part vlo. */
+  const dots = (gh: Float64Array, gl: Float64Array, vlo: Float64Array | null): void => {
+    let vloPtr = 0;
+    if (ws && vlo) {
+      if (!ws.holds(vlo)) {
+        comp.set(vlo);
+        vlo = comp;
+      }
+      vloPtr = vlo.byteOffset;
+    }
     for (let j = 0; j < p; j++) {
       if (ws) {
         const c = load(j);
-        ws.k.dot2(c.ptr, c.loPtr, c.scale, vh.byteOffset, vl.byteOffset, n, 0, out!.byteOffset);
+        ws.k.dot2(c.ptr, c.loPtr, c.scale, vh.byteOffset, vl.byteOffset, n, 0, out!.byteOffset, vloPtr);
         dd.hi = out![0]!;
         dd.lo = out![1]!;
-      } else dot2(A, j, vh, vl, n, 0, dd);
+      } else dot2(A, j, vh, vl, n, 0, dd, vlo);
       const t = gh[j]! + dd.hi;
       const bb = t - gh[j]!;
       gl[j]! += gh[j]! - (t - bb) + (dd.hi - bb) + dd.lo;
@@ -150,14 +181,19 @@ export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array
     return v;
   };
 
-  // c = Aᵀb (double-double; the low parts of b give a second, tiny, dot product).
+  // c = Aᵀb (double-double): from the joined Gram matrix, or one compensated pass (the low parts of
+  // b, 2^-53 smaller, in working precision).
   const cHi = new Float64Array(p);
   const cLo = new Float64Array(p);
-  split(bHi);
-  dots(cHi, cLo);
-  if (bLo) {
-    split(bLo);
-    dots(cHi, cLo);
+  if (withB) {
+    const sc = pow2(-eb);
+    for (let j = 0; j < p; j++) {
+      cHi[j] = full.hi[p * q + j]! * sc;
+      cLo[j] = full.lo[p * q + j]! * sc;
+    }
+  } else {
+    split(bHi);
+    dots(cHi, cLo, bLo);
   }
 
   // Parameter-space refinement: x ← x + R⁻¹R⁻ᵀ(c − G̃x), x as xh + xl.
@@ -215,17 +251,34 @@ export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array
     nx = Math.max(nx, Math.abs(s));
   }
 
-  // One correction with the true residual (corrected seminormal equations): r = b − A x and
-  // g = Aᵀr in compensated arithmetic, x ← x + R⁻¹R⁻ᵀg. It contracts x's error — at most
-  // level·‖x‖ from the Gram matrix's bound — by ρ = ‖I − (RᵀR)⁻¹AᵀA‖ ≤ (cholesky + β)/σ_min², so the
+  const u = EPS / 2;
+  const sp = Math.sqrt(p);
+  // The residual r = b − A x, compensated, and its 2-norm.
+  const takeResidual = (): { r: Float64Array; rn: number } => {
+    residual(xh, xl);
+    const r = new Float64Array(n);
+    let rr = 0;
+    for (let i = 0; i < n; i++) {
+      const v = s[i]! + comp[i]!;
+      r[i] = v;
+      rr += v * v;
+    }
+    return { r, rn: Math.sqrt(rr) };
+  };
+  // Accept when the residual's error, ‖A‖₂·(error of x) ≤ √p·xErr (columns of length ≤ 1), is within
+  // one unit of roundoff of ‖r‖ (+ the compensated pass's own ε²-level rounding, u²·√p·‖x‖).
+  let res = takeResidual();
+  let xErr = level * sp * nx + u * u * sp * nx;
+  if (sp * xErr <= EPS * res.rn) return finish({ qr, gram, x: Float64Array.from(xh), r: res.r, steps });
+
+  // Otherwise one correction with the true residual (corrected seminormal equations): g = Aᵀr in
+  // compensated arithmetic, x ← x + R⁻¹R⁻ᵀg. It contracts x's error — at most level·‖x‖ from the
+  // Gram matrix's bound — by ρ = ‖I − (RᵀR)⁻¹AᵀA‖ ≤ (Cholesky's p(p+1)u·2 + β)/σ_min², so the
   // coefficients no longer depend on the Gram matrix's rounding to first order.
-  residual(xh, xl);
   const gh = new Float64Array(p);
   const gl = new Float64Array(p);
   split(s);
-  dots(gh, gl);
-  split(comp);
-  dots(gh, gl);
+  dots(gh, gl, comp);
   let ng = 0;
   for (let i = 0; i < p; i++) {
     d[i] = gh[i]! + gl[i]!;
@@ -240,22 +293,13 @@ export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array
     xh[i] = t + e;
     xl[i] = e - (xh[i]! - t);
   }
-  residual(xh, xl);
-  const r = new Float64Array(n);
-  let rr = 0;
-  for (let i = 0; i < n; i++) {
-    const v = s[i]! + comp[i]!;
-    r[i] = v;
-    rr += v * v;
-  }
-  finish(null);
-  // Error of x after the correction (2-norms; ‖A‖₂ ≤ √p for columns of length ≤ 1, ‖x‖₂ ≤ √p·max|x|):
-  // ρ·(level·‖x‖) + ‖(RᵀR)⁻¹‖·(rounding of g: u·‖g‖ plus the compensated dot products' n²u²·‖A‖‖r‖).
-  const u = EPS / 2;
+  const rn0 = res.rn;
+  res = takeResidual();
+  // Error of x after the correction: ρ·(level·‖x‖) + ‖(RᵀR)⁻¹‖·(rounding of g: u·‖g‖ plus the
+  // compensated dot products' n²u²·‖A‖‖r‖).
   const rho = (2 * p * (p + 1) * u + bound) / (sigmaMin * sigmaMin);
-  const xErr = rho * level * Math.sqrt(p) * nx + (u * Math.sqrt(p) * ng + n * n * u * u * Math.sqrt(p * rr)) / (sigmaMin * sigmaMin) + u * u * Math.sqrt(p) * nx;
-  // The residual's error is at most ‖A‖·xErr (+ the compensated pass's own ε²-level rounding):
-  // accept when that is within one unit of roundoff of ‖r‖.
-  if (!(rho < 0.5 && Math.sqrt(p) * xErr <= EPS * Math.sqrt(rr))) return null;
-  return { qr, gram, x: Float64Array.from(xh), r, steps: steps + 1 };
+  xErr = rho * level * sp * nx + (u * sp * ng + n * n * u * u * sp * rn0) / (sigmaMin * sigmaMin) + u * u * sp * nx;
+  finish(null);
+  if (!(rho < 0.5 && sp * xErr <= EPS * res.rn)) return null;
+  return { qr, gram, x: Float64Array.from(xh), r: res.r, steps: steps + 1 };
 }

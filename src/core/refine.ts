@@ -269,10 +269,10 @@ export function residualUpdate(A: DDMatrix, col: number, alpha: number, s: Float
 
 /**
  * c0 + A(:, col)ᵀ v as a double-double (out.hi + out.lo), compensated (Dot2, the low parts of A in
- * working precision), with v given as Dekker halves vh + vl: the dot-product half of
- * fusedColumnPass (WebAssembly twin: dot2 in kernels.wat).
+ * working precision), with v given as Dekker halves vh + vl (+ an optional low part vlo, in working
+ * precision): the dot-product half of fusedColumnPass (WebAssembly twin: dot2 in kernels.wat).
  */
-export function dot2(A: DDMatrix, col: number, vh: Float64Array, vl: Float64Array, m: number, c0: number, out: DD): DD {
+export function dot2(A: DDMatrix, col: number, vh: Float64Array, vl: Float64Array, m: number, c0: number, out: DD, vlo: Float64Array | null = null): DD {
   const { data: hi, off, scale } = columnView(A, col);
   const lo = A.lo;
   let ds = c0;
@@ -291,6 +291,7 @@ export function dot2(A: DDMatrix, col: number, vh: Float64Array, vl: Float64Arra
     ds = dn;
   }
   if (lo) for (let i = 0, o = col * m; i < m; i++) de += lo[o + i]! * (vh[i]! + vl[i]!);
+  if (vlo) for (let i = 0; i < m; i++) de += hi[off + i]! * scale * vlo[i]!;
   const x = ds + de;
   out.hi = x;
   out.lo = de - (x - ds);
