@@ -114,6 +114,13 @@ describe("WebAssembly kernels", () => {
       const ca = a.scaledCovariance();
       const cb = b.scaledCovariance();
       ca.forEach((v, t) => expect(rel(v, cb[t]!)).toBeLessThanOrEqual(1e-13));
+      // leverage: the kernel does each row's operations in the JavaScript order, so on the same
+      // factor it is bit for bit the same
+      useKernels(false);
+      const la = Array.from(b.leverageUsed());
+      useKernels(true);
+      const c = new LeastSquaresFit(spec);
+      expect(Array.from(c.leverageUsed())).toEqual(la);
     }
   });
 });

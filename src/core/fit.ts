@@ -402,15 +402,27 @@ export class LeastSquaresFit {
   fittedAndResiduals(): { fitted: Float64Array; resid: Float64Array } {
     if (this.outCache) return this.outCache;
     const m = this.shape.m;
-    const fitted = new Float64Array(m).fill(NaN);
-    const resid = new Float64Array(m).fill(NaN);
+    const fitted = new Float64Array(m);
+    const resid = new Float64Array(m);
+    if (this.n < m) {
+      fitted.fill(NaN);
+      resid.fill(NaN);
+    }
     const ys = this.ys;
     const sw = this.sw;
+    const { used, residScaled } = this;
+    const y = this.spec.y;
+    // Multiplications by 2^±ys, each split in two factors when |ys| > 1000 (exact either way).
+    const c = Math.max(-1000, Math.min(1000, ys));
+    const up1 = pow2(c);
+    const up2 = pow2(ys - c);
+    const down1 = pow2(-c);
+    const down2 = pow2(c - ys);
     for (let t = 0; t < this.n; t++) {
-      const i = this.used[t]!;
-      const r = sw ? this.residScaled[t]! / sw.hi[t]! : this.residScaled[t]!;
-      resid[i] = scaleByPow2(r, -ys);
-      fitted[i] = scaleByPow2(scaleByPow2(this.spec.y[i]!, ys) - r, -ys);
+      const i = used[t]!;
+      const r = sw ? residScaled[t]! / sw.hi[t]! : residScaled[t]!;
+      resid[i] = r * down1 * down2;
+      fitted[i] = (y[i]! * up1 * up2 - r) * down1 * down2;
     }
     const rows: number[] = [];
     for (let i = 0; i < m; i++) if (this.status[i] === RowStatus.ZeroWeight) rows.push(i);
@@ -709,6 +721,10 @@ export class LeastSquaresFit {
     const r = this.rank;
     const { qr, design } = this;
     const h = new Float64Array(n);
+    if (r > 0 && this.leverageKernel(h)) {
+      this.levCache = h;
+      return h;
+    }
     const B = 512;
     const z = new Float64Array(B * r);
     for (let i0 = 0; i0 < n; i0 += B) {
@@ -734,6 +750,29 @@ export class LeastSquaresFit {
     }
     this.levCache = h;
     return h;
+  }
+
+  /** leverageUsed's loop as the WebAssembly kernel `lev`, over panels of rows; false when unavailable. */
+  private leverageKernel(h: Float64Array): boolean {
+    const { n, rank: r, qr, design } = this;
+    const P = 1024;
+    const ws = Workspace.create(2 * r * P + r * r + r + P + 64);
+    if (!ws) return false;
+    const panel = ws.alloc(r * P);
+    const z = ws.alloc(r * P);
+    const R = ws.alloc(r * r);
+    const scales = ws.alloc(r);
+    const hp = ws.alloc(P);
+    for (let k = 0; k < r; k++) for (let l = 0; l <= k; l++) R[k * r + l] = qr.r(l, k);
+    const views = Array.from(qr.kept.subarray(0, r), (c) => columnView(design, c));
+    views.forEach((v, k) => (scales[k] = v.scale));
+    for (let i0 = 0; i0 < n; i0 += P) {
+      const rows = Math.min(P, n - i0);
+      views.forEach((v, k) => panel.set(v.data.subarray(v.off + i0, v.off + i0 + rows), k * P));
+      ws.k.lev(panel.byteOffset, r, rows, P, scales.byteOffset, R.byteOffset, z.byteOffset, hp.byteOffset);
+      h.set(hp.subarray(0, rows), i0);
+    }
+    return true;
   }
 
   /**

@@ -18,6 +18,7 @@ export interface KernelExports {
   group(v0: number, v1: number, v2: number, v3: number, r0: number, m: number, t: number, c: number, transpose: number): void;
   dot2(col: number, lo: number, scale: number, vh: number, vl: number, m: number, c0: number, out: number, vlo: number): void;
   axpy2(col: number, lo: number, scale: number, alpha: number, alphaLo: number, s: number, comp: number, m: number): void;
+  lev(panel: number, nk: number, rows: number, ld: number, scales: number, R: number, z: number, h: number): void;
   gram(panel: number, lo: number, nk: number, rows: number, ld: number, scales: number, v: number, h: number, l: number, w: number, s1h: number, s1l: number, s2h: number, s2l: number): void;
 }
 

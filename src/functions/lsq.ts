@@ -19,11 +19,6 @@ function q(v: Quantity): Cell {
   return cellError("#N/A", v.na);
 }
 
-/** Lay a vector out along y's orientation (column, or row when y was a row). */
-function along(model: Model, cells: Cell[]): Grid {
-  return model.asRow ? [cells] : cells.map((c) => [c]);
-}
-
 function readLevel(v: unknown): number {
   const level = readNumber(v, "level", 0.95);
   if (!(level > 0 && level < 1)) throw new SheetError("#NUM!", `level must be between 0 and 1, e.g. 0.95 (it is ${level})`);
@@ -53,29 +48,36 @@ export function coef(y: unknown, x: unknown, intercept: unknown, weights: unknow
   return Array.from(b, (v, j) => [Number.isNaN(v) ? cellError("#N/A", coefMessage(model, j)) : q(v)]);
 }
 
-function rowAligned(model: Model, value: (i: number) => Cell): Grid {
-  const { fit } = model;
-  const cells: Cell[] = [];
-  for (let i = 0; i < model.m; i++) {
-    const st = fit.status[i]!;
-    if (st !== RowStatus.Used && st !== RowStatus.ZeroWeight) cells.push(cellError("#N/A", `row ${i + 1} was skipped: ${model.skipReason(i)}`));
-    else cells.push(value(i));
+/** One cell per input row (a column, or a row when y was a row); #N/A with the reason for skipped rows. */
+function rowAligned(model: Model, values: Float64Array): Grid {
+  const { status } = model.fit;
+  const m = model.m;
+  const cell = (i: number): Cell => {
+    const st = status[i]!;
+    if (st !== RowStatus.Used && st !== RowStatus.ZeroWeight) return cellError("#N/A", `row ${i + 1} was skipped: ${model.skipReason(i)}`);
+    const v = values[i]!;
+    return Number.isFinite(v) ? v : q(v);
+  };
+  if (model.asRow) {
+    const row: Cell[] = new Array<Cell>(m);
+    for (let i = 0; i < m; i++) row[i] = cell(i);
+    return [row];
   }
-  return along(model, cells);
+  const out: Grid = new Array<Cell[]>(m);
+  for (let i = 0; i < m; i++) out[i] = [cell(i)];
+  return out;
 }
 
 export function fitted(y: unknown, x: unknown, intercept: unknown, weights: unknown, degree: unknown): Grid {
   const model = getModel(y, x, intercept, weights, degree);
   requireEnoughRows(model);
-  const f = model.fit.fittedAndResiduals().fitted;
-  return rowAligned(model, (i) => q(f[i]!));
+  return rowAligned(model, model.fit.fittedAndResiduals().fitted);
 }
 
 export function resid(y: unknown, x: unknown, intercept: unknown, weights: unknown, degree: unknown): Grid {
   const model = getModel(y, x, intercept, weights, degree);
   requireEnoughRows(model);
-  const r = model.fit.fittedAndResiduals().resid;
-  return rowAligned(model, (i) => q(r[i]!));
+  return rowAligned(model, model.fit.fittedAndResiduals().resid);
 }
 
 export function cov(y: unknown, x: unknown, intercept: unknown, weights: unknown, degree: unknown): Grid {
