@@ -225,7 +225,8 @@ function accumulate(s1h: Float64Array, s1l: Float64Array, s2h: Float64Array, s2l
  * - the exact sum contributes nothing (its products and partial sums are integers below 2^53
  *   units of 2^(g+g'); if those units fall below the smallest double, each product loses at most
  *   2^-1074, at most B·2^-1074 per block, covered by the last term below);
- * - the cross sum has 2B terms (4B with low parts), so it rounds by at most γ_4B·Σ(|a l'| + |l h'|).
+ * - the cross sum has 2B terms (4B with low parts), so it rounds by at most γ_n·Σ(|a l'| + |l h'|)
+ *   with n = 2B + 1 (4B + 1): the WebAssembly kernel sums two lanes and then joins them.
  *   |l| ≤ 2^(g−1) ≤ 2^-24·max|a| (a clamped grid only makes |l| ≤ 2^-1001, covered by the last
  *   term) and |h'| ≤ (1 + 2^-24)·max|b|, so by Cauchy–Schwarz (max|b| ≤ ‖b_blk‖, Σ|a| ≤ √B‖a_blk‖)
  *   Σ(|a l'| + |l h'|) ≤ 2^-23·(1 + 2^-23)·√B·‖a_blk‖‖b_blk‖;
@@ -240,7 +241,9 @@ function accumulate(s1h: Float64Array, s1l: Float64Array, s2h: Float64Array, s2l
  */
 export function splitGramBound(m: number, nk: number, withLow: boolean): number {
   const u = EPS / 2;
-  const n = 4 * B;
+  // Terms per cross sum: 2 per row (4 with low parts), summed in one chain (JavaScript) or two
+  // lanes then joined (WebAssembly): at most 2B (+1 for the join), or 4B + 1.
+  const n = withLow ? 4 * B + 1 : 2 * B + 1;
   const gamma = (n * u) / (1 - n * u);
   const cross = gamma * 2 ** -23 * (1 + 2 ** -23) * Math.sqrt(B);
   const low = withLow ? 2 * EPS * EPS : 0;

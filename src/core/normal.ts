@@ -235,7 +235,9 @@ export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array
     steps = step + 1;
     // Converged when this correction, or the next one predicted from the observed rate, is below
     // the attainable level.
-    if (step > 0 && (nd <= 0.5 * level * nx || (step > 1 && nd <= RATE * prev && (nd * nd) / prev <= 0.25 * level * nx))) {
+    // (stop level: the remaining iteration error, at most √p·tiny in 2-norm, stays below level·‖x‖₂/2)
+    const stop = (0.5 * level * nx) / Math.sqrt(p);
+    if (step > 0 && (nd <= stop || (step > 1 && nd <= RATE * prev && (nd * nd) / prev <= 0.5 * stop))) {
       converged = true;
       break;
     }
@@ -243,16 +245,20 @@ export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array
   }
   if (!converged) return finish(null);
   // Normalize x and check that a correction below the attainable level was reached.
-  let nx = 0;
+  let x2 = 0;
   for (let i = 0; i < p; i++) {
     const s = xh[i]! + xl[i]!;
     xl[i] = xl[i]! - (s - xh[i]!);
     xh[i] = s;
-    nx = Math.max(nx, Math.abs(s));
+    x2 += s * s;
   }
+  const nx = Math.sqrt(x2) * (1 + 2 * p * EPS); // ‖x‖₂, rounded up
 
   const u = EPS / 2;
-  const sp = Math.sqrt(p);
+  // ‖A‖₂ ≤ ‖A‖_F = √(Σ‖a_j‖²) = √(trace G), rounded up.
+  let tr = 0;
+  for (let j = 0; j < p; j++) tr += gram.hi[j * p + j]!;
+  const sp = Math.sqrt(tr * (1 + 2 * p * EPS) + bound);
   // The residual r = b − A x, compensated, and its 2-norm.
   const takeResidual = (): { r: Float64Array; rn: number } => {
     residual(xh, xl);
@@ -265,10 +271,11 @@ export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array
     }
     return { r, rn: Math.sqrt(rr) };
   };
-  // Accept when the residual's error, ‖A‖₂·(error of x) ≤ √p·xErr (columns of length ≤ 1), is within
-  // one unit of roundoff of ‖r‖ (+ the compensated pass's own ε²-level rounding, u²·√p·‖x‖).
+  // Accept when the residual's error, ‖A‖₂·(error of x) ≤ sp·xErr with xErr ≥ ‖δx‖₂ = ‖G⁻¹δG x‖₂
+  // ≤ level·‖x‖₂, is within one unit of roundoff of ‖r‖ (+ the compensated pass's own ε²-level
+  // rounding, u²·‖A‖·‖x‖).
   let res = takeResidual();
-  let xErr = level * sp * nx + u * u * sp * nx;
+  let xErr = 1.5 * level * nx + u * u * sp * nx;
   if (sp * xErr <= EPS * res.rn) return finish({ qr, gram, x: Float64Array.from(xh), r: res.r, steps });
 
   // Otherwise one correction with the true residual (corrected seminormal equations): g = Aᵀr in
@@ -295,10 +302,10 @@ export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array
   }
   const rn0 = res.rn;
   res = takeResidual();
-  // Error of x after the correction: ρ·(level·‖x‖) + ‖(RᵀR)⁻¹‖·(rounding of g: u·‖g‖ plus the
-  // compensated dot products' n²u²·‖A‖‖r‖).
+  // Error of x after the correction: ρ·(level·‖x‖) + ‖(RᵀR)⁻¹‖·(rounding of g: u·‖g‖₂ ≤ u·√p·max|g|,
+  // plus the compensated dot products' n²u²·‖A‖‖r‖).
   const rho = (2 * p * (p + 1) * u + bound) / (sigmaMin * sigmaMin);
-  xErr = rho * level * sp * nx + (u * sp * ng + n * n * u * u * sp * rn0) / (sigmaMin * sigmaMin) + u * u * sp * nx;
+  xErr = rho * 1.5 * level * nx + (u * Math.sqrt(p) * ng + n * n * u * u * sp * rn0) / (sigmaMin * sigmaMin) + u * u * sp * nx;
   finish(null);
   if (!(rho < 0.5 && sp * xErr <= EPS * res.rn)) return null;
   return { qr, gram, x: Float64Array.from(xh), r: res.r, steps: steps + 1 };
