@@ -209,8 +209,11 @@ export class LeastSquaresFit {
     const yHi = new Float64Array(n);
     const yLo = sw ? new Float64Array(n) : null;
     const tmp: DD = { hi: 0, lo: 0 };
+    const yc = Math.max(-1000, Math.min(1000, ys));
+    const ys1 = pow2(yc);
+    const ys2 = pow2(ys - yc); // 1 unless |ys| > 1000: two exact multiplications then
     for (let t = 0; t < n; t++) {
-      const v = scaleByPow2(spec.y[used[t]!]!, ys);
+      const v = spec.y[used[t]!]! * ys1 * ys2;
       if (sw) {
         twoProd(v, sw.hi[t]!, tmp);
         yHi[t] = tmp.hi;
@@ -265,19 +268,24 @@ export class LeastSquaresFit {
 
     // Residual: the refined residual block r̃ of the augmented system, which converges to the
     // exact residual whatever the rounding of the coefficients (ỹ − X̃·fl(b̃) would carry that
-    // rounding, ~ε‖X̃‖‖b̃‖). One exception: when ỹ − X̃ b̃ is exactly zero in compensated
+    // rounding, ~ε‖X̃‖‖b̃‖), or on the fast path ỹ − X̃·b̃ with b̃ a double-double accurate enough
+    // for a proven bound (normal.ts). One exception: when ỹ − X̃ b̃ is exactly zero in compensated
     // arithmetic the fit is exact and the residual is reported as exactly zero (checked only
     // when the refined residual is already at rounding level).
-    if (sumSquares(r, 0, n) <= (64 * EPS) ** 2 * sumSquares(yHi, 0, n)) {
+    let rss = sumSquares(r, 0, n);
+    if (rss <= (64 * EPS) ** 2 * sumSquares(yHi, 0, n)) {
       const s = Float64Array.from(yHi);
       const comp = yLo ? Float64Array.from(yLo) : new Float64Array(n);
       for (let k = 0; k < rank; k++) residualUpdate(this.design, this.qr.kept[k]!, -this.coefScaled[k]!, s, comp, n);
       let exact = true;
       for (let t = 0; t < n && exact; t++) if (s[t]! + comp[t]! !== 0) exact = false;
-      if (exact) r = new Float64Array(n);
+      if (exact) {
+        r = new Float64Array(n);
+        rss = 0;
+      }
     }
     this.residScaled = r;
-    this.rssScaled = sumSquares(r, 0, n);
+    this.rssScaled = rss;
   }
 
   /**

@@ -116,7 +116,11 @@ export class Workspace {
     }
   }
 
-  /** A new zeroed region of n doubles (16-byte aligned). Throws when the workspace is full. */
+  /**
+   * A new region of n doubles (16-byte aligned): zero when the memory is fresh, but after a
+   * `release` it holds whatever was there, so callers write before they read. Throws when the
+   * workspace is full.
+   */
   alloc(n: number): Float64Array {
     const start = this.top;
     const end = start + n + (n & 1);
@@ -131,7 +135,6 @@ export class Workspace {
   }
 
   release(mark: number): void {
-    this.f64.fill(0, mark, this.top);
     this.top = mark;
   }
 
