@@ -72,7 +72,8 @@ export function validateSpec(spec: ModelSpec): ModelShape {
 export function classifyRows(spec: ModelSpec, shape: ModelShape): { status: Uint8Array; used: Int32Array; missingCol: Int32Array } {
   const { m, k } = shape;
   const status = new Uint8Array(m);
-  const missingCol = new Int32Array(m).fill(-1);
+  // Which x column is missing in a MissingX row (−1 elsewhere); allocated at the first such row.
+  let missingCol = new Int32Array(0);
   const { y, x, weights } = spec;
   for (let i = 0; i < m; i++) {
     const yi = y[i]!;
@@ -86,6 +87,7 @@ export function classifyRows(spec: ModelSpec, shape: ModelShape): { status: Uint
       if (v === Infinity || v === -Infinity) throw new LsqError("range", `x in row ${i + 1}, column ${j + 1} is infinite`);
       if (Number.isNaN(v) && status[i] === RowStatus.Used) {
         status[i] = RowStatus.MissingX;
+        if (missingCol.length === 0) missingCol = new Int32Array(m).fill(-1);
         missingCol[i] = j;
       }
     }

@@ -113,7 +113,7 @@ export class LeastSquaresFit {
   readonly shape: ModelShape;
   /** Status of every input row (RowStatus). */
   readonly status: Uint8Array;
-  /** For rows skipped because of x: the x column that was missing. */
+  /** For rows skipped because of x: the x column that was missing (empty when no row misses x). */
   readonly missingCol: Int32Array;
   /** Input rows used in the fit (complete, weight > 0). */
   readonly used: Int32Array;
@@ -300,7 +300,7 @@ export class LeastSquaresFit {
     let j = 0;
     if (spec.intercept) {
       const e = -exponentOf(Math.sqrt(m));
-      cols.push({ data: new Float64Array(m).fill(1), off: 0, scale: pow2(e) });
+      cols.push({ data: ones(m), off: 0, scale: pow2(e) });
       cs[j++] = e;
     }
     for (let c = 0; c < shape.k; c++, j++) {
@@ -965,6 +965,15 @@ function checkFinite(hi: Float64Array, lo: Float64Array | null, off: number, n: 
 }
 
 export type { NotAvailable };
+
+/** A shared read-only column of ones (the intercept's view), kept for up to 2^21 rows. */
+let onesCache = new Float64Array(0);
+function ones(m: number): Float64Array {
+  if (onesCache.length >= m) return onesCache;
+  const a = new Float64Array(m).fill(1);
+  if (m <= 2 ** 21) onesCache = a;
+  return a;
+}
 
 /**
  * Refine C = G⁻¹ (G given as a double-double) with the triangular factor R (RᵀR ≈ G):
