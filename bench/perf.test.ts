@@ -50,7 +50,7 @@ function time(reps: number, f: () => unknown): { ms: number; keep: unknown } {
 it("benchmark one size", () => {
   const m = Number(process.env.BENCH_ROWS ?? 1000);
   const k = Number(process.env.BENCH_COLS ?? 5);
-  const reps = Number(process.env.BENCH_REPS ?? (m >= 1e6 ? 3 : m >= 1e5 ? 5 : 9));
+  const reps = Number(process.env.BENCH_REPS ?? (m >= 1e6 ? 5 : m >= 1e5 ? 9 : 15));
   const g = gen(12345 + m + k);
   const x = new Float64Array(m * k);
   for (let i = 0; i < x.length; i++) x[i] = g() * (1 + (i % 7));
