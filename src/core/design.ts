@@ -68,8 +68,13 @@ export function validateSpec(spec: ModelSpec): ModelShape {
   return { m, k, degree, p };
 }
 
-/** Classify every input row; throws LsqError for a non-finite number or a negative weight. */
-export function classifyRows(spec: ModelSpec, shape: ModelShape): { status: Uint8Array; used: Int32Array; missingCol: Int32Array } {
+/**
+ * Classify every input row; throws LsqError for a non-finite number or a negative weight. In the
+ * same pass over x, `preExp`: the exponent of each column's largest finite magnitude (0 for an
+ * empty or zero column). The engine divides column c by 2^preExp[c] (exactly) before forming
+ * products and powers, so nothing overflows even for entries near the largest double.
+ */
+export function classifyRows(spec: ModelSpec, shape: ModelShape): { status: Uint8Array; used: Int32Array; missingCol: Int32Array; preExp: Int32Array } {
   const { m, k } = shape;
   const status = new Uint8Array(m);
   // Which x column is missing in a MissingX row (−1 elsewhere); allocated at the first such row.
@@ -80,17 +85,24 @@ export function classifyRows(spec: ModelSpec, shape: ModelShape): { status: Uint
     if (yi === Infinity || yi === -Infinity) throw new LsqError("range", `y in row ${i + 1} is infinite`);
     if (Number.isNaN(yi)) status[i] = RowStatus.MissingY;
   }
+  const preExp = new Int32Array(k);
   for (let j = 0; j < k; j++) {
     const off = j * m;
+    let mx = 0;
     for (let i = 0; i < m; i++) {
       const v = x[off + i]!;
-      if (v === Infinity || v === -Infinity) throw new LsqError("range", `x in row ${i + 1}, column ${j + 1} is infinite`);
+      const a = Math.abs(v);
+      if (a > mx) {
+        if (a === Infinity) throw new LsqError("range", `x in row ${i + 1}, column ${j + 1} is infinite`);
+        mx = a;
+      }
       if (Number.isNaN(v) && status[i] === RowStatus.Used) {
         status[i] = RowStatus.MissingX;
         if (missingCol.length === 0) missingCol = new Int32Array(m).fill(-1);
         missingCol[i] = j;
       }
     }
+    preExp[j] = exponentOf(mx);
   }
   if (weights) {
     for (let i = 0; i < m; i++) {
@@ -106,25 +118,7 @@ export function classifyRows(spec: ModelSpec, shape: ModelShape): { status: Uint
   const used = new Int32Array(n);
   n = 0;
   for (let i = 0; i < m; i++) if (status[i] === RowStatus.Used) used[n++] = i;
-  return { status, used, missingCol };
-}
-
-/**
- * Exponent of the largest finite magnitude in each column of x (0 for an empty or zero column):
- * the engine divides column c by 2^preExp[c] (exactly) before forming products and powers, so
- * nothing overflows even for entries near the largest double.
- */
-export function columnExponents(v: Float64Array, m: number, k: number): Int32Array {
-  const e = new Int32Array(k);
-  for (let j = 0; j < k; j++) {
-    let mx = 0;
-    for (let i = j * m, end = i + m; i < end; i++) {
-      const a = Math.abs(v[i]!);
-      if (a > mx && a !== Infinity) mx = a;
-    }
-    e[j] = exponentOf(mx);
-  }
-  return e;
+  return { status, used, missingCol, preExp };
 }
 
 /**

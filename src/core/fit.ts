@@ -24,7 +24,6 @@ import { LsqError, notAvailable, type NotAvailable, type Quantity } from "./erro
 import {
   RowStatus,
   classifyRows,
-  columnExponents,
   designPreExp,
   fillDesignColumn,
   sqrtWeights,
@@ -162,14 +161,14 @@ export class LeastSquaresFit {
     this.spec = spec;
     const shape = validateSpec(spec);
     this.shape = shape;
-    const { status, used, missingCol } = classifyRows(spec, shape);
+    const { status, used, missingCol, preExp } = classifyRows(spec, shape);
     this.status = status;
     this.missingCol = missingCol;
     this.used = used;
     const n = used.length;
     this.n = n;
     const p = shape.p;
-    this.preExp = columnExponents(spec.x, shape.m, shape.k);
+    this.preExp = preExp;
     this.sw = sqrtWeights(spec.weights, used);
     const sw = this.sw;
 
@@ -273,7 +272,9 @@ export class LeastSquaresFit {
     // arithmetic the fit is exact and the residual is reported as exactly zero (checked only
     // when the refined residual is already at rounding level).
     let rss = sumSquares(r, 0, n);
-    if (rss <= (64 * EPS) ** 2 * sumSquares(yHi, 0, n)) {
+    let yy = 0; // a threshold only: ordinary arithmetic
+    for (let t = 0; t < n; t++) yy += yHi[t]! * yHi[t]!;
+    if (rss <= (64 * EPS) ** 2 * yy) {
       const s = Float64Array.from(yHi);
       const comp = yLo ? Float64Array.from(yLo) : new Float64Array(n);
       for (let k = 0; k < rank; k++) residualUpdate(this.design, this.qr.kept[k]!, -this.coefScaled[k]!, s, comp, n);
