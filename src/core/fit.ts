@@ -38,7 +38,7 @@ import { exponentOf, pow2, scaleArrayByPow2, scaleByPow2 } from "./scale";
 import { twoProd, twoSum, type DD } from "./dd";
 import { fUpper, tQuantile, tTwoSided } from "./distributions";
 import { conditionNumber, type Conditioning } from "./condition";
-import { gramScratch, splitGram, splitGramBound, type BoundedGram } from "./gram";
+import { gramResidual, gramScratch, splitGram, splitGramBound, type BoundedGram } from "./gram";
 import { normalPathEnabled, normalScratch, solveNormal } from "./normal";
 
 /** How a non-identifiable design column depends on the kept columns before it. */
@@ -984,25 +984,15 @@ function ones(m: number): Float64Array {
 function refineCovarianceGram(qr: HouseholderQR, G: { hi: Float64Array; lo: Float64Array }, r: number): Float64Array {
   const c = new Float64Array(r * r);
   const col = new Float64Array(r);
-  const tmp: DD = { hi: 0, lo: 0 };
+  const unit = new Float64Array(r);
   for (let t = 0; t < r; t++) {
     const o = t * r;
+    unit.fill(0);
+    unit[t] = 1;
     let prev = Infinity;
     for (let step = 0; step < 10; step++) {
       // residual e_t − G c_t
-      for (let i = 0; i < r; i++) {
-        let s = i === t ? 1 : 0;
-        let e = 0;
-        for (let k = 0; k < r; k++) {
-          const ck = c[o + k]!;
-          twoProd(G.hi[k * r + i]!, -ck, tmp);
-          const sn = s + tmp.hi;
-          const bb = sn - s;
-          e += s - (sn - bb) + (tmp.hi - bb) + tmp.lo - G.lo[k * r + i]! * ck;
-          s = sn;
-        }
-        col[i] = s + e;
-      }
+      gramResidual(G, r, unit, null, c.subarray(o, o + r), null, col);
       qr.solveRt(r, col);
       qr.solveR(r, col);
       let nd = 0;

@@ -24,6 +24,7 @@
 import { EPS } from "./qr";
 import { columnView, type DDMatrix } from "./refine";
 import type { Workspace } from "./kernels";
+import { twoProd, type DD } from "./dd";
 
 /** Rows per block (with 24-bit high parts, 32 products of 48 bits sum exactly below 2^53). */
 const B = 32;
@@ -251,4 +252,28 @@ export function splitGramBound(m: number, nk: number, withLow: boolean): number 
   const accumulation = 2 * (N * N + N + 4) * u * u;
   const tiny = (m + B) * 2 ** -990; // products below the smallest double, clamped grids
   return nk * (cross + low + accumulation) + nk * nk * tiny;
+}
+
+const scratch: DD = { hi: 0, lo: 0 };
+
+/**
+ * out[i] = (rHi + rLo)[i] − Σ_k G(i, k)·(xh + xl)[k], i < p, for a double-double G (p × p, column-
+ * major) and x: every product G.hi·xh error-free (TwoProduct) and summed with TwoSum, the terms
+ * with G.lo and xl (2^-53 smaller) in working precision. rLo and xl may be null (zero).
+ */
+export function gramResidual(G: { hi: Float64Array; lo: Float64Array }, p: number, rHi: ArrayLike<number>, rLo: ArrayLike<number> | null, xh: ArrayLike<number>, xl: ArrayLike<number> | null, out: Float64Array): void {
+  for (let i = 0; i < p; i++) {
+    let s = rHi[i]!;
+    let e = rLo ? rLo[i]! : 0;
+    for (let k = 0; k < p; k++) {
+      const g = G.hi[k * p + i]!;
+      const xk = xh[k]!;
+      twoProd(g, -xk, scratch);
+      const sn = s + scratch.hi;
+      const bb = sn - s;
+      e += s - (sn - bb) + (scratch.hi - bb) + scratch.lo - G.lo[k * p + i]! * xk - (xl ? g * xl[k]! : 0);
+      s = sn;
+    }
+    out[i] = s + e;
+  }
 }

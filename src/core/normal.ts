@@ -22,8 +22,8 @@
  * WebAssembly kernels when a workspace is given (kernels.ts), else their JavaScript twins.
  */
 import { conditionNumber } from "./condition";
-import { twoProd, type DD } from "./dd";
-import { gramScratch, splitGram, splitGramBound, type BoundedGram } from "./gram";
+import type { DD } from "./dd";
+import { gramResidual, gramScratch, splitGram, splitGramBound, type BoundedGram } from "./gram";
 import type { Workspace } from "./kernels";
 import { EPS, HouseholderQR } from "./qr";
 import { axpy2, columnView, dot2, RATE, type DDMatrix } from "./refine";
@@ -204,19 +204,7 @@ export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array
   let steps = 0;
   let converged = false;
   for (let step = 0; step < 12; step++) {
-    for (let i = 0; i < p; i++) {
-      let s = cHi[i]!;
-      let e = cLo[i]!;
-      for (let k = 0; k < p; k++) {
-        const g = gram.hi[k * p + i]!;
-        twoProd(g, -xh[k]!, dd);
-        const sn = s + dd.hi;
-        const bb = sn - s;
-        e += s - (sn - bb) + (dd.hi - bb) + dd.lo - gram.lo[k * p + i]! * xh[k]! - g * xl[k]!;
-        s = sn;
-      }
-      d[i] = s + e;
-    }
+    gramResidual(gram, p, cHi, cLo, xh, xl, d);
     qr.solveRt(p, d);
     qr.solveR(p, d);
     let nd = 0;
