@@ -35,7 +35,7 @@ import { defaultTolerance, EPS, HouseholderQR, nrm2, tmatLength } from "./qr";
 import { Workspace } from "./kernels";
 import { columnOf, columnView, ddGram, RATE, REFINE_SCRATCH, refineAugmented, residualUpdate, type ColumnView, type DDMatrix } from "./refine";
 import { exponentOf, pow2, scaleArrayByPow2, scaleByPow2 } from "./scale";
-import { twoProd, twoSum, type DD } from "./dd";
+import { SPLITTER, twoProd, twoSum, type DD } from "./dd";
 import { fUpper, tQuantile, tTwoSided } from "./distributions";
 import { conditionNumber, type Conditioning } from "./condition";
 import { gramResidual, gramScratch, splitGram, splitGramBound, type BoundedGram } from "./gram";
@@ -351,13 +351,11 @@ export class LeastSquaresFit {
 
   /** Number of skipped rows (missing values), and of rows with zero weight. */
   rowCounts(): { skipped: number; zeroWeight: number } {
-    let skipped = 0;
+    const { status } = this;
     let zeroWeight = 0;
-    for (const s of this.status) {
-      if (s === RowStatus.ZeroWeight) zeroWeight++;
-      else if (s !== RowStatus.Used) skipped++;
-    }
-    return { skipped, zeroWeight };
+    // Only weights can make a row "zero weight"; every other unused row was skipped.
+    if (this.spec.weights) for (let i = 0; i < status.length; i++) if (status[i] === RowStatus.ZeroWeight) zeroWeight++;
+    return { skipped: status.length - this.n - zeroWeight, zeroWeight };
   }
 
   // ------------------------------------------------------------------ coefficients
@@ -635,6 +633,21 @@ export class LeastSquaresFit {
     const dev = new Float64Array(n);
     if (!this.spec.intercept) {
       for (let t = 0; t < n; t++) dev[t] = yHi[t]! + (yLo ? yLo[t]! : 0);
+      return sumSquares(dev, 0, n);
+    }
+    if (!sw && !yLo) {
+      // Unweighted: ȳ = Σ ỹ / n (compensated sum), deviations ỹ − ȳ.
+      let num = 0;
+      let numC = 0;
+      for (let t = 0; t < n; t++) {
+        const v = yHi[t]!;
+        const sn = num + v;
+        const bb = sn - num;
+        numC += num - (sn - bb) + (v - bb);
+        num = sn;
+      }
+      const ybar = (num + numC) / n;
+      for (let t = 0; t < n; t++) dev[t] = yHi[t]! - ybar;
       return sumSquares(dev, 0, n);
     }
     // ȳ_w (scaled) = Σ √w·ỹ / Σ w; deviations √w·(y − ȳ_w) = ỹ − √w·ȳ_w.
@@ -944,13 +957,17 @@ function finiteOr(v: number, reason: string): Quantity {
 export function sumSquares(v: Float64Array, off: number, n: number): number {
   let s = 0;
   let c = 0;
-  const tmp: DD = { hi: 0, lo: 0 };
   for (let i = off; i < off + n; i++) {
     const x = v[i]!;
-    twoProd(x, x, tmp);
-    const sn = s + tmp.hi;
+    // TwoProduct(x, x) by Dekker's splitting, inline (x² = p + e exactly)
+    const p = x * x;
+    const t = SPLITTER * x;
+    const xh = t - (t - x);
+    const xl = x - xh;
+    const e = xh * xh - p + xh * xl + xl * xh + xl * xl;
+    const sn = s + p;
     const bb = sn - s;
-    c += s - (sn - bb) + (tmp.hi - bb) + tmp.lo;
+    c += s - (sn - bb) + (p - bb) + e;
     s = sn;
   }
   return s + c;

@@ -636,46 +636,67 @@
   ;; Leverage of a panel of rows: with x_k = panel[k·ld + i]·scales[k], solve zᵀR = xᵀ row by row
   ;; (z_k = (x_k − Σ_{l<k} R(l,k)·z_l) · (1/R(k,k)), R column-major nk × nk) and set
   ;; h[i] = Σ_k z_k²; z is scratch of nk·ld doubles. The same operations in the same order for
-  ;; each row as leverageUsed in fit.ts, two rows at a time (rows are rounded up to even: ld must be
-  ;; even and the panel's spare row finite).
+  ;; each row as leverageUsed in fit.ts (column by column, one R(l,k)·z_l update at a time over all
+  ;; rows), two rows at a time; rows are rounded up to even, so ld must be even and the panel's
+  ;; spare row finite.
   (func (export "lev")
     (param $panel i32) (param $nk i32) (param $rows i32) (param $ld i32) (param $scales i32)
     (param $R i32) (param $z i32) (param $h i32)
-    (local $k i32) (local $l i32) (local $i i32) (local $ko i32) (local $lo i32) (local $rk i32)
-    (local $v v128) (local $sc v128) (local $inv v128) (local $acc v128)
-    (local.set $rows (i32.and (i32.add (local.get $rows) (i32.const 1)) (i32.const -2)))
+    (local $k i32) (local $l i32) (local $i i32) (local $end i32) (local $zk i32) (local $zl i32) (local $rk i32) (local $src i32)
+    (local $v v128) (local $sc v128) (local $inv v128) (local $r v128) (local $rl f64)
+    (local.set $end (i32.shl (i32.and (i32.add (local.get $rows) (i32.const 1)) (i32.const -2)) (i32.const 3)))
     ;; h = 0
     (local.set $i (i32.const 0))
     (block $d0 (loop $l0
-      (br_if $d0 (i32.ge_s (local.get $i) (local.get $rows)))
-      (v128.store (i32.add (local.get $h) (i32.shl (local.get $i) (i32.const 3))) (v128.const i64x2 0 0))
-      (local.set $i (i32.add (local.get $i) (i32.const 2)))
+      (br_if $d0 (i32.ge_s (local.get $i) (local.get $end)))
+      (v128.store (i32.add (local.get $h) (local.get $i)) (v128.const i64x2 0 0))
+      (local.set $i (i32.add (local.get $i) (i32.const 16)))
       (br $l0)))
     (block $dk (loop $lk
       (br_if $dk (i32.ge_s (local.get $k) (local.get $nk)))
-      (local.set $ko (i32.shl (i32.mul (local.get $k) (local.get $ld)) (i32.const 3)))
+      (local.set $zk (i32.add (local.get $z) (i32.shl (i32.mul (local.get $k) (local.get $ld)) (i32.const 3))))
+      (local.set $src (i32.add (local.get $panel) (i32.shl (i32.mul (local.get $k) (local.get $ld)) (i32.const 3))))
       (local.set $rk (i32.add (local.get $R) (i32.shl (i32.mul (local.get $k) (local.get $nk)) (i32.const 3))))
+      ;; z_k = x_k
       (local.set $sc (f64x2.splat (f64.load (i32.add (local.get $scales) (i32.shl (local.get $k) (i32.const 3))))))
+      (local.set $i (i32.const 0))
+      (block $d1 (loop $l1
+        (br_if $d1 (i32.ge_s (local.get $i) (local.get $end)))
+        (v128.store (i32.add (local.get $zk) (local.get $i)) (f64x2.mul (v128.load (i32.add (local.get $src) (local.get $i))) (local.get $sc)))
+        (local.set $i (i32.add (local.get $i) (i32.const 16)))
+        (br $l1)))
+      ;; z_k −= R(l,k)·z_l for l < k (skipping zero R(l,k), as the JavaScript does)
+      (local.set $l (i32.const 0))
+      (block $dl (loop $ll
+        (br_if $dl (i32.ge_s (local.get $l) (local.get $k)))
+        (local.set $rl (f64.load (i32.add (local.get $rk) (i32.shl (local.get $l) (i32.const 3)))))
+        (if (f64.ne (local.get $rl) (f64.const 0))
+          (then
+            (local.set $r (f64x2.splat (local.get $rl)))
+            (local.set $zl (i32.add (local.get $z) (i32.shl (i32.mul (local.get $l) (local.get $ld)) (i32.const 3))))
+            (local.set $i (i32.const 0))
+            (block $d2 (loop $l2
+              (br_if $d2 (i32.ge_s (local.get $i) (local.get $end)))
+              (v128.store (i32.add (local.get $zk) (local.get $i))
+                (f64x2.sub (v128.load (i32.add (local.get $zk) (local.get $i)))
+                  (f64x2.mul (local.get $r) (v128.load (i32.add (local.get $zl) (local.get $i))))))
+              (local.set $i (i32.add (local.get $i) (i32.const 16)))
+              (br $l2)))))
+        (local.set $l (i32.add (local.get $l) (i32.const 1)))
+        (br $ll)))
+      ;; z_k ·= 1/R(k,k); h += z_k²
       (local.set $inv (f64x2.splat (f64.div (f64.const 1) (f64.load (i32.add (local.get $rk) (i32.shl (local.get $k) (i32.const 3)))))))
       (local.set $i (i32.const 0))
-      (block $di (loop $li
-        (br_if $di (i32.ge_s (local.get $i) (local.get $rows)))
-        (local.set $v (f64x2.mul (v128.load (i32.add (local.get $panel) (i32.add (local.get $ko) (i32.shl (local.get $i) (i32.const 3))))) (local.get $sc)))
-        (local.set $l (i32.const 0))
-        (block $dl (loop $ll
-          (br_if $dl (i32.ge_s (local.get $l) (local.get $k)))
-          (local.set $v (f64x2.sub (local.get $v)
-            (f64x2.mul (f64x2.splat (f64.load (i32.add (local.get $rk) (i32.shl (local.get $l) (i32.const 3)))))
-              (v128.load (i32.add (local.get $z) (i32.shl (i32.add (i32.mul (local.get $l) (local.get $ld)) (local.get $i)) (i32.const 3)))))))
-          (local.set $l (i32.add (local.get $l) (i32.const 1)))
-          (br $ll)))
-        (local.set $v (f64x2.mul (local.get $v) (local.get $inv)))
-        (v128.store (i32.add (local.get $z) (i32.add (local.get $ko) (i32.shl (local.get $i) (i32.const 3)))) (local.get $v))
-        (local.set $acc (v128.load (i32.add (local.get $h) (i32.shl (local.get $i) (i32.const 3)))))
-        (v128.store (i32.add (local.get $h) (i32.shl (local.get $i) (i32.const 3))) (f64x2.add (local.get $acc) (f64x2.mul (local.get $v) (local.get $v))))
-        (local.set $i (i32.add (local.get $i) (i32.const 2)))
-        (br $li)))
+      (block $d3 (loop $l3
+        (br_if $d3 (i32.ge_s (local.get $i) (local.get $end)))
+        (local.set $v (f64x2.mul (v128.load (i32.add (local.get $zk) (local.get $i))) (local.get $inv)))
+        (v128.store (i32.add (local.get $zk) (local.get $i)) (local.get $v))
+        (v128.store (i32.add (local.get $h) (local.get $i))
+          (f64x2.add (v128.load (i32.add (local.get $h) (local.get $i))) (f64x2.mul (local.get $v) (local.get $v))))
+        (local.set $i (i32.add (local.get $i) (i32.const 16)))
+        (br $l3)))
       (local.set $k (i32.add (local.get $k) (i32.const 1)))
       (br $lk)))
   )
+
 )
