@@ -79,8 +79,10 @@ it("benchmark one size", () => {
   out.engineMs = engine.ms;
   void first;
 
-  const y2 = Array.from(y, (v) => [v]);
-  const x2 = Array.from({ length: m }, (_, i) => Array.from({ length: k }, (_, j) => x[j * m + i]!));
+  // The host hands a custom function its ranges as arrays decoded from a JSON message; build them
+  // the same way (JSON.parse gives the runtime's packed arrays of numbers, as the host's do).
+  const y2 = JSON.parse(JSON.stringify(Array.from(y, (v) => [v]))) as number[][];
+  const x2 = JSON.parse(JSON.stringify(Array.from({ length: m }, (_, i) => Array.from({ length: k }, (_, j) => x[j * m + i]!)))) as number[][];
   out.coefMs = time(reps, () => {
     clearCache();
     return L.coef(y2, x2, null, null, null);

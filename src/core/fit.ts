@@ -587,7 +587,7 @@ export class LeastSquaresFit {
     else {
       let sumLogW = 0;
       const w = this.spec.weights;
-      if (w) for (const i of this.used) sumLogW += Math.log(w[i]!);
+      if (w) for (let t = 0; t < n; t++) sumLogW += Math.log(w[this.used[t]!]!);
       const lnRss = Math.log(this.rssScaled) - 2 * ys * Math.LN2;
       logL = -0.5 * n * (Math.log(2 * Math.PI) + lnRss - Math.log(n) + 1) + 0.5 * sumLogW;
     }

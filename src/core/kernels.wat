@@ -644,6 +644,8 @@
     (param $R i32) (param $z i32) (param $h i32)
     (local $k i32) (local $l i32) (local $i i32) (local $end i32) (local $zk i32) (local $zl i32) (local $rk i32) (local $src i32)
     (local $v v128) (local $sc v128) (local $inv v128) (local $r v128) (local $rl f64)
+    (local $r1 f64) (local $r2 f64) (local $r3 f64) (local $r4 f64) (local $q1 v128) (local $q2 v128) (local $q3 v128) (local $q4 v128)
+    (local $z1 i32) (local $z2 i32) (local $z3 i32) (local $z4 i32)
     (local.set $end (i32.shl (i32.and (i32.add (local.get $rows) (i32.const 1)) (i32.const -2)) (i32.const 3)))
     ;; h = 0
     (local.set $i (i32.const 0))
@@ -665,8 +667,42 @@
         (v128.store (i32.add (local.get $zk) (local.get $i)) (f64x2.mul (v128.load (i32.add (local.get $src) (local.get $i))) (local.get $sc)))
         (local.set $i (i32.add (local.get $i) (i32.const 16)))
         (br $l1)))
-      ;; z_k −= R(l,k)·z_l for l < k (skipping zero R(l,k), as the JavaScript does)
+      ;; z_k −= R(l,k)·z_l for l < k, four l at a time while those four R(l,k) are nonzero (the
+      ;; same subtractions in the same order, z_k kept in a register), else one at a time skipping
+      ;; zero R(l,k), as the JavaScript does
       (local.set $l (i32.const 0))
+      (block $d4 (loop $l4
+        (br_if $d4 (i32.gt_s (i32.add (local.get $l) (i32.const 4)) (local.get $k)))
+        (local.set $r1 (f64.load (i32.add (local.get $rk) (i32.shl (local.get $l) (i32.const 3)))))
+        (local.set $r2 (f64.load offset=8 (i32.add (local.get $rk) (i32.shl (local.get $l) (i32.const 3)))))
+        (local.set $r3 (f64.load offset=16 (i32.add (local.get $rk) (i32.shl (local.get $l) (i32.const 3)))))
+        (local.set $r4 (f64.load offset=24 (i32.add (local.get $rk) (i32.shl (local.get $l) (i32.const 3)))))
+        (br_if $d4 (i32.or (i32.or (f64.eq (local.get $r1) (f64.const 0)) (f64.eq (local.get $r2) (f64.const 0)))
+                           (i32.or (f64.eq (local.get $r3) (f64.const 0)) (f64.eq (local.get $r4) (f64.const 0)))))
+        (local.set $q1 (f64x2.splat (local.get $r1)))
+        (local.set $q2 (f64x2.splat (local.get $r2)))
+        (local.set $q3 (f64x2.splat (local.get $r3)))
+        (local.set $q4 (f64x2.splat (local.get $r4)))
+        (local.set $z1 (i32.add (local.get $z) (i32.shl (i32.mul (local.get $l) (local.get $ld)) (i32.const 3))))
+        (local.set $z2 (i32.add (local.get $z1) (i32.shl (local.get $ld) (i32.const 3))))
+        (local.set $z3 (i32.add (local.get $z2) (i32.shl (local.get $ld) (i32.const 3))))
+        (local.set $z4 (i32.add (local.get $z3) (i32.shl (local.get $ld) (i32.const 3))))
+        (local.set $i (i32.const 0))
+        (block $d5 (loop $l5
+          (br_if $d5 (i32.ge_s (local.get $i) (local.get $end)))
+          (v128.store (i32.add (local.get $zk) (local.get $i))
+            (f64x2.sub
+              (f64x2.sub
+                (f64x2.sub
+                  (f64x2.sub (v128.load (i32.add (local.get $zk) (local.get $i)))
+                    (f64x2.mul (local.get $q1) (v128.load (i32.add (local.get $z1) (local.get $i)))))
+                  (f64x2.mul (local.get $q2) (v128.load (i32.add (local.get $z2) (local.get $i)))))
+                (f64x2.mul (local.get $q3) (v128.load (i32.add (local.get $z3) (local.get $i)))))
+              (f64x2.mul (local.get $q4) (v128.load (i32.add (local.get $z4) (local.get $i))))))
+          (local.set $i (i32.add (local.get $i) (i32.const 16)))
+          (br $l5)))
+        (local.set $l (i32.add (local.get $l) (i32.const 4)))
+        (br $l4)))
       (block $dl (loop $ll
         (br_if $dl (i32.ge_s (local.get $l) (local.get $k)))
         (local.set $rl (f64.load (i32.add (local.get $rk) (i32.shl (local.get $l) (i32.const 3)))))

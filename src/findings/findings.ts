@@ -327,11 +327,13 @@ export function findings(input: FindingsInput): Finding[] {
 
 /** Residuals are zero to within rounding of y. */
 export function isExactFit(fit: LeastSquaresFit): boolean {
-  let yy = 0;
-  for (const i of fit.used) yy = Math.max(yy, Math.abs(fit.spec.y[i]!));
   if (fit.rssScaled === 0) return true;
   // Compare in scaled units: ‖r̃‖ against rounding of ỹ (max |ỹ| lies in [0.5, 1)).
-  return Math.sqrt(fit.rssScaled) <= 8 * 2.220446049250313e-16 * Math.sqrt(fit.n) && yy > 0;
+  if (!(Math.sqrt(fit.rssScaled) <= 8 * 2.220446049250313e-16 * Math.sqrt(fit.n))) return false;
+  const { used } = fit;
+  let yy = 0;
+  for (let t = 0; t < used.length; t++) yy = Math.max(yy, Math.abs(fit.spec.y[used[t]!]!));
+  return yy > 0;
 }
 
 function defaultReason(s: number): string {
