@@ -8,13 +8,17 @@
  * 2. Each x column and y are divided by a power of two (exact) so nothing overflows; the
  *    design (intercept, x columns or dd powers) is multiplied by √w in double-double.
  * 3. Each design column is scaled by a power of two so its norm lies in [0.5, 1) (exact
- *    equilibration), and the high parts are factored by HouseholderQR, which makes the one
- *    rank decision (kept / non-identifiable columns, in the user's order). An unweighted
- *    degree-1 design with every row used is not copied: its columns are views into x.
- * 4. Coefficients and dependency relations are refined on the augmented system with
- *    double-double residuals against the exact (dd) design; the covariance is refined through
- *    the double-double Gram matrix (κ ≤ 1e7) or the augmented system (above), see
- *    scaledCovariance().
+ *    equilibration). An unweighted degree-1 design with every row used is not copied: its
+ *    columns are views into x.
+ * 4. Fast path first (normal.ts): a Gram matrix with a proven error bound, its Cholesky factor
+ *    through HouseholderQR's one rank decision, parameter-space refinement and a compensated
+ *    residual — kept only when its error bounds guarantee full accuracy (well-conditioned,
+ *    full-rank designs that are not nearly exact fits).
+ * 5. Otherwise the high parts are factored by HouseholderQR, which makes the one rank decision
+ *    (kept / non-identifiable columns, in the user's order); coefficients and dependency
+ *    relations are refined on the augmented system with double-double residuals against the
+ *    exact (dd) design; the covariance is refined through an accurate Gram matrix (κ ≤ 1e7) or
+ *    the augmented system (above), see scaledCovariance().
  *
  * Scaled quantities carry a tilde in comments: X̃ = √W·X·2^cs (per column), ỹ = √W·y·2^ys.
  * True values follow exactly: b_j = b̃_j·2^(cs_j − ys), (XᵀWX)⁻¹_ij = C̃_ij·2^(cs_i + cs_j),

@@ -11,23 +11,27 @@
  *  3. Accepted only when every column is kept and β·‖G⁻¹‖ = β/σ_min² ≤ ε/16: then the exact
  *     solution of G̃ x = Aᵀb differs from the least-squares solution by at most ε/16 relative.
  *     Otherwise the caller falls back to Householder QR with augmented-system refinement.
- *  4. c = Aᵀb in double-double (compensated dot products), then x ← x + R⁻¹R⁻ᵀ(c − G̃x) with the
- *     residual in compensated arithmetic and x kept as a double-double, until the correction is
- *     below the attainable level β/σ_min²·‖x‖.
- *  5. The residual r = b − A·x in compensated arithmetic. Its error is at most ‖A‖·(β/σ_min²)·‖x‖
- *     (+ rounding at the ε² level); accepted only when that is below ε·‖r‖ (near-exact fits go to
- *     the fallback, whose refined residual does not depend on the accuracy of x).
+ *  4. c = Aᵀb as a double-double: from the same Gram pass, with b joined as an extra column (exact
+ *     designs), else one compensated pass. Then x ← x + R⁻¹R⁻ᵀ(c − G̃x) with the residual in
+ *     compensated arithmetic and x kept as a double-double, until the correction is below the
+ *     attainable level.
+ *  5. The residual r = b − A·x in one compensated pass. Its error is at most ‖A‖·‖δx‖ with
+ *     ‖δx‖ ≤ (β/σ_min²)·‖x‖ (+ rounding at the ε² level); accepted when that is below ε·‖r‖.
+ *  6. Otherwise one corrected-seminormal step with the true residual (g = Aᵀr compensated,
+ *     x ← x + R⁻¹R⁻ᵀg), which contracts x's error by ρ ≤ (2p(p+1)u + β)/σ_min², a new residual
+ *     pass, and the same test; if it still fails (nearly exact fits) the caller falls back to the
+ *     Householder path, whose refined residual does not depend on the accuracy of x.
  *
- * Passes over the data: one for G (the bulk of the work), one for Aᵀb and one for r, all
- * WebAssembly kernels when a workspace is given (kernels.ts), else their JavaScript twins.
+ * Passes over the data: one for G (the bulk of the work) and usually one for r (two more in
+ * step 6), as WebAssembly kernels when a workspace is given (kernels.ts), else their JavaScript
+ * twins.
  */
 import { conditionNumber } from "./condition";
-import type { DD } from "./dd";
+import { SPLITTER, type DD } from "./dd";
 import { gramResidual, gramScratch, splitGram, splitGramBound, type BoundedGram } from "./gram";
 import type { Workspace } from "./kernels";
 import { EPS, HouseholderQR } from "./qr";
 import { axpy2, columnView, dot2, RATE, type DDMatrix } from "./refine";
-import { SPLITTER } from "./dd";
 import { exponentOf, pow2 } from "./scale";
 
 /** The leading p × p block of a q × q column-major matrix. */
