@@ -238,7 +238,7 @@ export class LeastSquaresFit {
     const tol = spec.tolerance === undefined || Number.isNaN(spec.tolerance) ? defaultTolerance(n, p) : spec.tolerance;
     // Fast path first (normal.ts): well-conditioned full-rank designs, with a proven accuracy
     // check; otherwise Householder QR of the design and augmented-system refinement.
-    const fast = normalPathEnabled() && tol >= 0 ? solveNormal(this.design, n, p, yHi, yLo, tol, Workspace.create(normalScratch(n, p))) : null;
+    const fast = normalPathEnabled() && tol >= 0 ? solveNormal(this.design, n, p, yHi, yLo, tol, Workspace.scratch(normalScratch(n, p))) : null;
     let r: Float64Array;
     if (fast) {
       this.method = "normal";
@@ -782,7 +782,7 @@ export class LeastSquaresFit {
   private leverageKernel(h: Float64Array): boolean {
     const { n, rank: r, qr, design } = this;
     const P = 1024;
-    const ws = Workspace.create(2 * r * P + r * r + r + P + 64);
+    const ws = Workspace.scratch(2 * r * P + r * r + r + P + 64);
     if (!ws) return false;
     const panel = ws.alloc(r * P);
     const z = ws.alloc(r * P);

@@ -1,10 +1,12 @@
 /**
  * The WebAssembly kernels (kernels.wat, 128-bit SIMD) and the memory they work in.
  *
- * A `Workspace` is one WebAssembly memory, sized once for one factorization and never grown (so
- * JavaScript views of it stay valid), with a bump allocator handing out 16-byte aligned
- * Float64Array regions. The factor lives in it, so the kernels and the JavaScript code around
- * them read the same storage; it is released with the factorization by the garbage collector.
+ * A `Workspace` is one WebAssembly memory with a bump allocator handing out 16-byte aligned
+ * Float64Array regions. A factorization's own workspace is sized once and never grown (so
+ * JavaScript views of it stay valid); the factor lives in it, so the kernels and the JavaScript
+ * code around them read the same storage, and it is released with the factorization by the
+ * garbage collector. Work that keeps nothing afterwards uses one shared scratch workspace
+ * (`Workspace.scratch`), grown when needed.
  *
  * Every kernel has a JavaScript twin (qr.ts, refine.ts, gram.ts) that is used when WebAssembly
  * with SIMD is not available, or is switched off with `useKernels(false)` (tests compare both).
@@ -84,12 +86,16 @@ export function kernelsAvailable(): boolean {
 
 const PAGE = 65536;
 
+/** Largest shared scratch workspace kept between calls, in doubles (128 MB). */
+const SCRATCH_CAP = 2 ** 24;
+
 export class Workspace {
   readonly memory: WebAssembly.Memory;
   readonly k: KernelExports;
-  /** The whole memory as doubles. */
-  readonly f64: Float64Array;
+  /** The whole memory as doubles (replaced when the shared scratch workspace grows). */
+  f64: Float64Array;
   private top = 2; // offset 0 stays unused, so a zero pointer can mean "none"
+  private static shared: Workspace | null = null;
 
   private constructor(memory: WebAssembly.Memory, k: KernelExports) {
     this.memory = memory;
@@ -98,22 +104,55 @@ export class Workspace {
   }
 
   /**
-   * A workspace able to hold `doubles` doubles in regions of any sizes (each region is rounded up
-   * to an even count of doubles), or null when the kernels are not available or memory is refused.
+   * The shared scratch workspace, emptied and grown to hold `doubles`, for work that keeps no view
+   * of it after it returns (the fast path, leverage). Reusing one memory spares each call a fresh
+   * allocation (and the page faults and garbage collections that come with it). Above SCRATCH_CAP
+   * a workspace of its own is made instead. Null when the kernels are not available.
    */
-  static create(doubles: number): Workspace | null {
+  static scratch(doubles: number): Workspace | null {
     if (!enabled) return null;
+    if (doubles > SCRATCH_CAP) return Workspace.create(doubles);
+    let ws = Workspace.shared;
+    if (!ws) {
+      if (!load()) return null;
+      ws = Workspace.make(Math.ceil((SCRATCH_CAP * 8 + 64) / PAGE) + 1, doubles);
+      if (!ws) return null;
+      Workspace.shared = ws;
+    }
+    const need = Math.ceil((doubles * 8 + 64) / PAGE) + 1 - ws.memory.buffer.byteLength / PAGE;
+    if (need > 0) {
+      try {
+        ws.memory.grow(need);
+      } catch {
+        return Workspace.create(doubles);
+      }
+      ws.f64 = new Float64Array(ws.memory.buffer);
+    }
+    ws.top = 2;
+    return ws;
+  }
+
+  private static make(maxPages: number, doubles: number): Workspace | null {
     const mod = load();
     if (!mod) return null;
     const pages = Math.ceil((doubles * 8 + 64) / PAGE) + 1;
     if (pages > 65536) return null;
     try {
-      const memory = new WebAssembly.Memory({ initial: pages, maximum: pages });
+      const memory = new WebAssembly.Memory({ initial: pages, maximum: Math.max(pages, maxPages) });
       const inst = new WebAssembly.Instance(mod, { env: { memory } });
       return new Workspace(memory, inst.exports as unknown as KernelExports);
     } catch {
       return null;
     }
+  }
+
+  /**
+   * A workspace able to hold `doubles` doubles in regions of any sizes (each region is rounded up
+   * to an even count of doubles), or null when the kernels are not available or memory is refused.
+   */
+  static create(doubles: number): Workspace | null {
+    if (!enabled) return null;
+    return Workspace.make(0, doubles);
   }
 
   /**

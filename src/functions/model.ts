@@ -135,7 +135,7 @@ export function getModel(yArg: unknown, xArg: unknown, interceptArg: unknown, we
     value = toSheetError(e);
   }
   const blocks = w ? [y, x, w] : [y, x];
-  cache.insert(hash, { numbers: blocks.flatMap((b) => [b.data, b.raw]), bytes: blocks.map((b) => b.kinds), flags, blocks }, value);
+  cache.insert(hash, { numbers: blocks.map((b) => b.data), bytes: blocks.map((b) => b.kinds), flags, blocks }, value);
   if (value instanceof SheetError) throw value;
   return value;
 }

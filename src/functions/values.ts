@@ -28,11 +28,6 @@ export interface Block {
   readonly data: Float64Array;
   /** Cell kinds, same layout. */
   readonly kinds: Uint8Array;
-  /**
-   * The values again in the 2-D array's own order (row by row, NaN for missing), kept with cached
-   * inputs so that comparing a new 2-D array against them reads both sequentially.
-   */
-  readonly raw: Float64Array;
 }
 
 /** Check that v is a non-empty rectangular 2-D array; returns its size. */
@@ -60,22 +55,19 @@ export function readBlock(v: unknown, name: string, transpose = false): Block {
   const rows = transpose ? c0 : r0;
   const cols = transpose ? r0 : c0;
   const data = new Float64Array(rows * cols);
-  const raw = new Float64Array(rows * cols);
   const kinds = new Uint8Array(rows * cols); // CellKind.Number = 0
   const arr = v as unknown[][];
-  for (let i = 0, t = 0; i < r0; i++) {
+  for (let i = 0; i < r0; i++) {
     const row = arr[i]!;
-    for (let j = 0; j < c0; j++, t++) {
+    for (let j = 0; j < c0; j++) {
       const c = row[j];
       // Element (i, j) of the range is element (i, j) of the block, or (j, i) when transposed.
       const at = transpose ? i * rows + j : j * rows + i;
       if (typeof c === "number" && c === c) {
         data[at] = c;
-        raw[t] = c;
         continue;
       }
       data[at] = NaN;
-      raw[t] = NaN;
       kinds[at] =
         typeof c === "number"
           ? CellKind.NotANumber
@@ -88,7 +80,7 @@ export function readBlock(v: unknown, name: string, transpose = false): Block {
                 : CellKind.Error;
     }
   }
-  return { rows, cols, data, kinds, raw };
+  return { rows, cols, data, kinds };
 }
 
 /** A scalar argument: unwrap a 1×1 array (hosts may pass a single cell that way). */
@@ -176,23 +168,26 @@ function mixCell(c: unknown, h: number): number {
 
 /**
  * Does the 2-D array hold exactly what `b` stores (value bits and kinds; transposed as readBlock)?
- * The values are compared in the array's own order against `b.raw`: a number cell matches when it
- * equals the stored value (a stored missing cell is NaN, so equality also proves the stored kind is
- * a number) and, for zeros, has the same sign; any other cell must have the stored kind.
+ * A number cell matches when it equals the stored value (a stored missing cell is NaN, so equality
+ * also proves the stored kind is a number) and, for zeros, has the same sign; any other cell must
+ * have the stored kind.
  */
 export function rangeEquals(v: unknown[][], b: Block, transpose: boolean): boolean {
-  const raw = b.raw;
-  for (let i = 0, t = 0; i < v.length; i++) {
+  const rows = b.rows;
+  const data = b.data;
+  for (let i = 0; i < v.length; i++) {
     const row = v[i]!;
     const n = row.length;
-    for (let j = 0; j < n; j++, t++) {
+    // Element (i, j) of the range is element (i, j) of the block, or (j, i) when transposed.
+    let at = transpose ? i * rows : i;
+    const stride = transpose ? 1 : rows;
+    for (let j = 0; j < n; j++, at += stride) {
       const c = row[j];
-      if (c === raw[t]) {
-        if (c === 0 && 1 / c !== 1 / raw[t]!) return false;
+      if (c === data[at]) {
+        if (c === 0 && 1 / c !== 1 / data[at]!) return false;
         continue;
       }
       if (typeof c === "number" && c === c) return false; // a different number
-      const at = transpose ? i * b.rows + j : j * b.rows + i;
       if (b.kinds[at] !== kindOf(c)) return false;
     }
   }
