@@ -8,6 +8,7 @@ import { resolve } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { serveDist } from "./server";
+import { KERNELS_WASM_BASE64 } from "../../src/core/kernels.wasm";
 
 const CHROMIUM = "/usr/bin/chromium";
 const have = existsSync(CHROMIUM);
@@ -107,6 +108,18 @@ describe.skipIf(!have)("preview in a plain browser (office.js unavailable)", () 
     await page.keyboard.press("Tab");
     expect(await page.evaluate(() => document.activeElement?.tagName)).toBe("SELECT");
     await page.screenshot({ path: resolve(ART, "preview-320px.png"), fullPage: true });
+    await page.context().close();
+  });
+
+  it("lets the page compile the engine's WebAssembly kernels under its security policy", async () => {
+    const { page, errors } = await openPreview();
+    const compiled = await page.evaluate(async (b64: string) => {
+      const bytes = Uint8Array.from(atob(b64), (c) => c.charCodeAt(0));
+      const mod = await WebAssembly.compile(bytes);
+      return WebAssembly.Module.exports(mod).map((e) => e.name);
+    }, KERNELS_WASM_BASE64);
+    expect(compiled).toEqual(expect.arrayContaining(["fused", "group", "gram", "dot2", "axpy2", "lev"]));
+    expect(errors).toEqual([]);
     await page.context().close();
   });
 
