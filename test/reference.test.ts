@@ -10,6 +10,7 @@ import { resolve } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { LeastSquaresFit } from "../src/core/fit";
 import { useNormalPath } from "../src/core/normal";
+import { useKernels } from "../src/core/kernels";
 import { fUpper, tQuantile, tTwoSided } from "../src/core/distributions";
 
 interface Problem {
@@ -72,15 +73,23 @@ describe(`reference fits from ${SOURCE}`, () => {
     console.log(`reference fixtures: ${SOURCE}, ${ref.problems.length} problems`);
     expect(ref.problems.length).toBeGreaterThanOrEqual(40);
   });
-  // Every problem twice: with the fast normal-equations path allowed (taken where its accuracy
-  // check passes; src/core/normal.ts) and with Householder QR only.
-  describe.each([true, false])("fast path allowed: %s", (fast) => {
+  // Every problem with the fast normal-equations path allowed (taken where its accuracy check
+  // passes; src/core/normal.ts) and with Householder QR only.
+  // And once more with the WebAssembly kernels switched off (their JavaScript twins).
+  describe.each([
+    { fast: true, kernels: true },
+    { fast: false, kernels: true },
+    { fast: true, kernels: false },
+  ])("fast path allowed: $fast, WebAssembly kernels: $kernels", ({ fast, kernels }) => {
     let was = true;
+    let wasK = true;
     beforeAll(() => {
       was = useNormalPath(fast);
+      wasK = useKernels(kernels);
     });
     afterAll(() => {
       useNormalPath(was);
+      useKernels(wasK);
     });
     for (const pr of ref.problems) {
       it(`${pr.name}: rank, coefficients, standard errors, σ, R², fitted values, residuals, leverage`, () => {
@@ -159,7 +168,7 @@ describe(`reference fits from ${SOURCE}`, () => {
         const m = fitOf(pr).method;
         counts[m] = (counts[m] ?? 0) + 1;
       }
-      console.log(`fast path allowed: ${fast}; fits by method: ${JSON.stringify(counts)}`);
+      console.log(`fast path allowed: ${fast}, kernels: ${kernels}; fits by method: ${JSON.stringify(counts)}`);
       if (fast) expect(counts.normal ?? 0).toBeGreaterThanOrEqual(5);
       else expect(counts.normal ?? 0).toBe(0);
     });
