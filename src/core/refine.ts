@@ -19,8 +19,9 @@
  *
  * Starting from r = 0, x = 0 the first step is the ordinary QR solution. A right-hand side
  * stops when its correction is below ε‖x‖, or when the next correction predicted from the
- * observed rate (nd²/prev) is below half of that while that rate is at most √ε, or when it no longer shrinks by half (a
- * correction that grew is not applied), or after `maxSteps`.
+ * observed rate (nd²/prev, measured between two corrections and at most √ε) is below half of
+ * that, or when it no longer shrinks by half (a correction that grew is not applied), or after
+ * `maxSteps`.
  */
 import type { HouseholderQR } from "./qr";
 import { EPS } from "./qr";
