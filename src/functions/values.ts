@@ -26,9 +26,11 @@ export interface Block {
   readonly cols: number;
   /** Values, column-major (rows × cols); NaN for missing. */
   readonly data: Float64Array;
-  /** Cell kinds, same layout. */
+  /** Cell kinds, same layout; empty (length 0) when every cell is an ordinary number. */
   readonly kinds: Uint8Array;
 }
+
+const NO_KINDS = new Uint8Array(0);
 
 /** Check that v is a non-empty rectangular 2-D array; returns its size. */
 export function shapeOf(v: unknown, name: string): { rows: number; cols: number } {
@@ -55,7 +57,7 @@ export function readBlock(v: unknown, name: string, transpose = false): Block {
   const rows = transpose ? c0 : r0;
   const cols = transpose ? r0 : c0;
   const data = new Float64Array(rows * cols);
-  const kinds = new Uint8Array(rows * cols); // CellKind.Number = 0
+  let kinds = NO_KINDS; // allocated at the first cell that is not an ordinary number
   const arr = v as unknown[][];
   for (let i = 0; i < r0; i++) {
     const row = arr[i]!;
@@ -68,6 +70,7 @@ export function readBlock(v: unknown, name: string, transpose = false): Block {
         continue;
       }
       data[at] = NaN;
+      if (kinds.length === 0) kinds = new Uint8Array(rows * cols); // CellKind.Number = 0
       kinds[at] =
         typeof c === "number"
           ? CellKind.NotANumber
@@ -188,7 +191,7 @@ export function rangeEquals(v: unknown[][], b: Block, transpose: boolean): boole
         continue;
       }
       if (typeof c === "number" && c === c) return false; // a different number
-      if (b.kinds[at] !== kindOf(c)) return false;
+      if (b.kinds[at] !== kindOf(c)) return false; // (no kinds stored: every stored cell was a number)
     }
   }
   return true;
