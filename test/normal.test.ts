@@ -28,6 +28,29 @@ function problem(m: number, k: number, seed: number, opts: { collinear?: number;
   return { y, x, rows: m, cols: k, intercept: true };
 }
 
+/** The same fit on the Householder path. */
+function householderFit(spec: ModelSpec): LeastSquaresFit {
+  const was = useNormalPath(false);
+  try {
+    return new LeastSquaresFit(spec);
+  } finally {
+    useNormalPath(was);
+  }
+}
+
+/** Largest difference between two fits' residuals, and the largest residual of the second. */
+function residualGap(a: LeastSquaresFit, b: LeastSquaresFit): { diff: number; size: number } {
+  const ra = a.fittedAndResiduals().resid;
+  const rb = b.fittedAndResiduals().resid;
+  let diff = 0;
+  let size = 0;
+  rb.forEach((v, i) => {
+    diff = Math.max(diff, Math.abs(ra[i]! - v));
+    size = Math.max(size, Math.abs(v));
+  });
+  return { diff, size };
+}
+
 describe("which path a fit takes", () => {
   it("well-conditioned full-rank data: the fast path", () => {
     expect(new LeastSquaresFit(problem(2000, 5, 1)).method).toBe("normal");
@@ -44,18 +67,8 @@ describe("which path a fit takes", () => {
     for (const noise of [1e-9, 1e-12, 1e-15]) {
       const spec = problem(2000, 5, 4, { noise });
       const a = new LeastSquaresFit(spec);
-      useNormalPath(false);
-      const b = new LeastSquaresFit(spec);
-      useNormalPath(true);
-      const ra = a.fittedAndResiduals().resid;
-      const rb = b.fittedAndResiduals().resid;
-      let d = 0;
-      let n = 0;
-      rb.forEach((v, i) => {
-        d = Math.max(d, Math.abs(ra[i]! - v));
-        n = Math.max(n, Math.abs(v));
-      });
-      expect(d, `noise ${noise} (${a.method})`).toBeLessThanOrEqual(1e-13 * n);
+      const { diff, size } = residualGap(a, householderFit(spec));
+      expect(diff, `noise ${noise} (${a.method})`).toBeLessThanOrEqual(1e-13 * size);
     }
   });
   it("switched off: Householder QR", () => {
@@ -74,23 +87,14 @@ describe("the fast path agrees with Householder QR + refinement", () => {
   for (const [name, spec] of cases)
     it(name, () => {
       const fast = new LeastSquaresFit(spec);
-      useNormalPath(false);
-      const slow = new LeastSquaresFit(spec);
-      useNormalPath(true);
+      const slow = householderFit(spec);
       expect(fast.method).toBe("normal");
       expect(slow.method).toBe("householder");
       const rel = (u: number, v: number) => Math.abs(u - v) / Math.max(Math.abs(v), 1e-300);
       const bf = fast.coefficients();
       slow.coefficients().forEach((v, j) => expect(rel(bf[j]!, v), `coefficient ${j}`).toBeLessThanOrEqual(1e-14));
-      const rf = fast.fittedAndResiduals().resid;
-      const rs = slow.fittedAndResiduals().resid;
-      let d = 0;
-      let n = 0;
-      rs.forEach((v, i) => {
-        d = Math.max(d, Math.abs(rf[i]! - v));
-        n = Math.max(n, Math.abs(v));
-      });
-      expect(d).toBeLessThanOrEqual(1e-14 * n);
+      const { diff, size } = residualGap(fast, slow);
+      expect(diff).toBeLessThanOrEqual(1e-14 * size);
       const cf = fast.scaledCovariance();
       const cs = slow.scaledCovariance();
       const r = fast.rank;
