@@ -173,26 +173,31 @@ function mixCell(c: unknown, h: number): number {
  * Does the 2-D array hold exactly what `b` stores (value bits and kinds; transposed as readBlock)?
  * A number cell matches when it equals the stored value (a stored missing cell is NaN, so equality
  * also proves the stored kind is a number) and, for zeros, has the same sign; any other cell must
- * have the stored kind.
+ * have the stored kind. The common case — equal nonzero numbers — costs one comparison per cell.
  */
 export function rangeEquals(v: unknown[][], b: Block, transpose: boolean): boolean {
   const rows = b.rows;
   const data = b.data;
+  // Element (i, j) of the range is element (i, j) of the block, or (j, i) when transposed.
+  const stride = transpose ? 1 : rows;
   for (let i = 0; i < v.length; i++) {
     const row = v[i]!;
     const n = row.length;
-    // Element (i, j) of the range is element (i, j) of the block, or (j, i) when transposed.
-    let at = transpose ? i * rows : i;
-    const stride = transpose ? 1 : rows;
-    for (let j = 0; j < n; j++, at += stride) {
+    const at0 = transpose ? i * rows : i;
+    for (let j = 0, at = at0; j < n; j++, at += stride) {
       const c = row[j];
-      if (c === data[at]) {
-        if (c === 0 && 1 / c !== 1 / data[at]!) return false;
-        continue;
+      if (c !== data[at] || c === 0) {
+        if (!sameCell(c, b, at)) return false;
       }
-      if (typeof c === "number" && c === c) return false; // a different number
-      if (b.kinds[at] !== kindOf(c)) return false; // (no kinds stored: every stored cell was a number)
     }
   }
   return true;
+}
+
+/** rangeEquals for one cell that is not an equal nonzero number. */
+function sameCell(c: unknown, b: Block, at: number): boolean {
+  const d = b.data[at]!;
+  if (c === d) return 1 / (c as number) === 1 / d; // equal zeros: same sign
+  if (typeof c === "number" && c === c) return false; // a different number
+  return b.kinds.length > 0 && b.kinds[at] === kindOf(c); // (no kinds stored: every stored cell was a number)
 }
