@@ -18,7 +18,10 @@ function publicUrl() {
 }
 
 /** Post-process functions.json: allow error values into `any` parameters (the generator cannot
- * emit this flag) and point help links at the deployment address. */
+ * emit this flag), remove `allowCustomDataForDataTypeAny` (the generator always adds it; it needs
+ * CustomFunctionsRuntime 1.4, which retail and volume-licensed Office 2021 lack, and the add-in uses
+ * no data types — see DEVELOPERS.md "Host requirements"), and point help links at the deployment
+ * address. */
 class FunctionsJsonPostProcess {
   constructor(base) {
     this.base = base;
@@ -30,6 +33,7 @@ class FunctionsJsonPostProcess {
         if (!asset) return;
         const meta = JSON.parse(asset.source.source().toString());
         const out = { allowErrorForDataTypeAny: true, ...meta };
+        delete out.allowCustomDataForDataTypeAny;
         for (const f of out.functions) if (f.helpUrl) f.helpUrl = f.helpUrl.replace(DEV_URL, this.base);
         compilation.updateAsset("functions.json", new sources.RawSource(JSON.stringify(out, null, 2)));
       });

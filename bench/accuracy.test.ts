@@ -9,15 +9,13 @@ import { digits, loadNist, type NistDataset } from "../test/helpers/nist";
 import { fitNist, nistDigits } from "../test/helpers/nistfit";
 import { refineAugmented } from "../src/core/refine";
 import { scaleByPow2 } from "../src/core/scale";
-import { useNormalPath } from "../src/core/normal";
 
 function unrefinedDigits(d: NistDataset): number {
   // The plain Householder solution (no refinement), so the fit must take the Householder path.
-  const was = useNormalPath(false);
-  const fit = fitNist(d);
-  useNormalPath(was);
-  const sol = refineAugmented(fit.qr, fit.design, fit.rank, 1, fit.yHi, fit.yLo, null, { maxSteps: 1 });
-  const b = Array.from(fit.qr.kept, (j, k) => scaleByPow2(sol.x[k]!, fit.cs[j]! - fit.ys));
+  const fit = fitNist(d, { path: "householder" });
+  const qr = fit.householder!;
+  const sol = refineAugmented(qr, fit.design, fit.rank, 1, fit.yHi, fit.yLo, null, { maxSteps: 1 });
+  const b = Array.from(qr.kept, (j, k) => scaleByPow2(sol.x[k]!, fit.cs[j]! - fit.ys));
   return Math.min(...d.certified.coefficients.map((c, i) => digits(b[i]!, c)));
 }
 

@@ -87,16 +87,16 @@ it("benchmark one size", () => {
   const x2 = JSON.parse(JSON.stringify(Array.from({ length: m }, (_, i) => Array.from({ length: k }, (_, j) => x[j * m + i]!)))) as number[][];
   out.coefMs = time(reps, () => {
     clearCache();
-    return L.coef(y2, x2, null, null, null);
+    return L.coef({ y: y2, x: x2 });
   }).ms;
   // Five functions one after another; each call is also timed on its own, to show where the time
   // beyond the first goes.
   const calls: [string, () => unknown][] = [
-    ["COEF", () => L.coef(y2, x2, null, null, null)],
-    ["PARAMS", () => L.params(y2, x2, null, null, null, null)],
-    ["RESID", () => L.resid(y2, x2, null, null, null)],
-    ["STATS", () => L.stats(y2, x2, null, null, null)],
-    ["CHECK", () => L.check(y2, x2, null, null, null)],
+    ["COEF", () => L.coef({ y: y2, x: x2 })],
+    ["PARAMS", () => L.params({ y: y2, x: x2 })],
+    ["RESID", () => L.resid({ y: y2, x: x2 })],
+    ["STATS", () => L.stats({ y: y2, x: x2 })],
+    ["CHECK", () => L.check({ y: y2, x: x2 })],
   ];
   const perCall: number[][] = calls.map(() => []);
   out.fiveMs = time(reps, () => {
@@ -113,8 +113,8 @@ it("benchmark one size", () => {
   // (f) The fixed price of every call after the first: finding the cached fit, which means reading
   // every argument cell and comparing it with the stored copy (nothing else is computed).
   clearCache();
-  L.coef(y2, x2, null, null, null);
-  out.lookupMs = time(reps, () => getModel(y2, x2, null, null, null)).ms;
+  L.coef({ y: y2, x: x2 });
+  out.lookupMs = time(reps, () => getModel({ y: y2, x: x2 })).ms;
 
   const mlReps = m >= 1e6 ? 1 : Math.min(reps, 3);
   const design = new Matrix(m, k + 1);

@@ -51,7 +51,7 @@ describe("degenerate fits", () => {
   });
   it("all-zero column: non-identifiable, reported as zero", () => {
     const f = fit([1, 2, 4, 3], [[1, 2, 3, 4], [0, 0, 0, 0]]);
-    expect(Array.from(f.qr.dropped)).toEqual([2]);
+    expect(Array.from(f.factor.dropped)).toEqual([2]);
     expect(f.dependencies()[0]!.zero).toBe(true);
     expect(Number.isNaN(f.coefficients()[2]!)).toBe(true);
     const text = findings({ fit: f, labels: ["intercept", "speed", "spare"] }).map(findingText);
@@ -60,7 +60,7 @@ describe("degenerate fits", () => {
   });
   it("constant column alongside the intercept: flagged as duplicating the intercept", () => {
     const f = fit([1, 2, 4, 3], [[1, 2, 3, 4], [7, 7, 7, 7]]);
-    expect(Array.from(f.qr.dropped)).toEqual([2]);
+    expect(Array.from(f.factor.dropped)).toEqual([2]);
     const d = f.dependencies()[0]!;
     expect(d.coef[0]).toBeCloseTo(7, 14);
     const fs = findings({ fit: f, labels: ["intercept", "speed", "batch"] });
@@ -70,7 +70,7 @@ describe("degenerate fits", () => {
   it("more columns than usable rows: later columns non-identifiable, rank = rows", () => {
     const f = fit([1, 2, 3], [[1, 0, 2], [0, 1, 1], [5, 1, 0], [2, 2, 2]], false);
     expect(f.rank).toBe(3);
-    expect(Array.from(f.qr.dropped)).toEqual([3]);
+    expect(Array.from(f.factor.dropped)).toEqual([3]);
     noNaN(f);
   });
   it("one row: the intercept alone is estimated, nothing needing σ", () => {

@@ -12,16 +12,17 @@ beforeAll(() => {
 });
 
 /** The frozen public interface: ids and parameter lists never change (shared workbooks depend on them). */
+const FIT = ["y", "x", "weights?", "intercept?", "degree?"];
 const FROZEN: Record<string, string[]> = {
-  COEF: ["y", "x", "intercept?", "weights?", "degree?"],
-  FITTED: ["y", "x", "intercept?", "weights?", "degree?"],
-  RESID: ["y", "x", "intercept?", "weights?", "degree?"],
-  COV: ["y", "x", "intercept?", "weights?", "degree?"],
-  PARAMS: ["y", "x", "intercept?", "weights?", "degree?", "level?"],
-  STATS: ["y", "x", "intercept?", "weights?", "degree?"],
-  PREDICT: ["y", "x", "newx", "intercept?", "weights?", "degree?", "interval?", "level?"],
-  INFLUENCE: ["y", "x", "intercept?", "weights?", "degree?"],
-  CHECK: ["y", "x", "intercept?", "weights?", "degree?"],
+  COEF: [...FIT, "headers?", "weighting?"],
+  FITTED: [...FIT, "weighting?"],
+  RESID: [...FIT, "weighting?"],
+  COV: [...FIT, "headers?", "weighting?"],
+  PARAMS: [...FIT, "level?", "headers?", "weighting?"],
+  STATS: [...FIT, "weighting?"],
+  PREDICT: ["newx", ...FIT, "interval?", "level?", "headers?", "weighting?"],
+  INFLUENCE: [...FIT, "headers?", "weighting?"],
+  CHECK: [...FIT, "weighting?", "newx?", "newy?"],
 };
 
 describe("metadata (dist/functions.json)", () => {
@@ -130,18 +131,21 @@ describe("bad input gives one error value that says what and where", () => {
   const cases: [string, string, Record<string, unknown>, string, RegExp][] = [
     ["rows differ", "COEF", { y, x: col([1, 2, 3]) }, "#VALUE!", /y has 5 values but x has 3 rows/],
     ["several x with degree 2", "COEF", { y, x: x.map((r) => [r[0], 1]), degree: 2 }, "#VALUE!", /degree 2 needs x to be a single column/],
-    ["degree 0", "COEF", { y, x, degree: 0 }, "#NUM!", /degree must be a whole number from 1 to 20/],
-    ["degree 2.5", "COEF", { y, x, degree: 2.5 }, "#NUM!", /whole number/],
+    ["degree 0", "COEF", { y, x, degree: 0 }, "#VALUE!", /degree must be a whole number from 1 to 20/],
+    ["degree 2.5", "COEF", { y, x, degree: 2.5 }, "#VALUE!", /whole number/],
     ["degree text", "COEF", { y, x, degree: "two" }, "#VALUE!", /degree must be a number/],
-    ["negative weight", "COEF", { y, x, weights: col([1, 1, -1, 1, 1]) }, "#NUM!", /weight in row 3 is negative/],
+    ["negative weight", "COEF", { y, x, weights: col([1, 1, -1, 1, 1]) }, "#VALUE!", /weight in row 3 is negative/],
     ["too few rows", "COEF", { y: col([1, 2]), x: [[1, 2], [3, 5]] }, "#N/A", /only 2 usable rows for 3 parameters/],
-    ["level 1", "PARAMS", { y, x, level: 1 }, "#NUM!", /level must be between 0 and 1/],
+    ["level 1", "PARAMS", { y, x, level: 1 }, "#VALUE!", /level must be between 0 and 1/],
     ["interval word", "PREDICT", { y, x, newx: col([6]), interval: "foo" }, "#VALUE!", /interval must be "confidence" or "prediction"/],
     ["newx columns", "PREDICT", { y, x: x.map((r, i) => [r[0], i % 2]), newx: [[1, 2, 3]] }, "#VALUE!", /newx must have 2 columns like x/],
     ["ragged x", "COEF", { y, x: [[1], [2, 3], [3], [4], [5]] }, "#VALUE!", /rows of different lengths/],
     ["y not a vector", "COEF", { y: [[1, 2], [3, 4]], x: col([1, 2]) }, "#VALUE!", /single column or a single row/],
     ["intercept word", "COEF", { y, x, intercept: "maybe" }, "#VALUE!", /intercept must be TRUE or FALSE/],
-    ["infinite x", "COEF", { y, x: col([1, 2, Infinity, 4, 5]) }, "#NUM!", /row 3.*infinite/],
+    ["infinite x", "COEF", { y, x: col([1, 2, Infinity, 4, 5]) }, "#VALUE!", /row 3.*infinite/],
+    ["zero uncertainty", "COEF", { y, x, weights: col([0.1, 0.1, 0, 0.1, 0.1]), weighting: "uncertainty" }, "#VALUE!", /uncertainty in row 3 is zero/],
+    ["uncertainty without a range", "COEF", { y, x, weighting: "uncertainty" }, "#VALUE!", /no weights range was given/],
+    ["weighting word", "COEF", { y, x, weighting: "sigma" }, "#VALUE!", /weighting must be "relative" or "uncertainty"/],
   ];
   for (const [what, id, args, code, msg] of cases)
     it(`${what} → ${code}`, () => {

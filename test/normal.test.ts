@@ -3,15 +3,10 @@
  * Householder QR + augmented refinement (the path it replaces) on larger problems than the mpmath
  * fixtures (which check both paths against 60-digit arithmetic in reference.test.ts).
  */
-import { afterEach, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
 import { LeastSquaresFit } from "../src/core/fit";
 import type { ModelSpec } from "../src/core/design";
-import { useNormalPath } from "../src/core/normal";
 import { normal, rng } from "./helpers/gen";
-
-afterEach(() => {
-  useNormalPath(true);
-});
 
 function problem(m: number, k: number, seed: number, opts: { collinear?: number; noise?: number; duplicate?: boolean } = {}): ModelSpec {
   const r = rng(seed);
@@ -30,12 +25,7 @@ function problem(m: number, k: number, seed: number, opts: { collinear?: number;
 
 /** The same fit on the Householder path. */
 function householderFit(spec: ModelSpec): LeastSquaresFit {
-  const was = useNormalPath(false);
-  try {
-    return new LeastSquaresFit(spec);
-  } finally {
-    useNormalPath(was);
-  }
+  return new LeastSquaresFit(spec, { path: "householder" });
 }
 
 /** Largest difference between two fits' residuals, and the largest residual of the second. */
@@ -61,7 +51,7 @@ describe("which path a fit takes", () => {
   it("an exactly dependent column: Householder QR, and the column is flagged", () => {
     const fit = new LeastSquaresFit(problem(500, 4, 3, { duplicate: true }));
     expect(fit.method).toBe("householder");
-    expect(Array.from(fit.qr.dropped)).toEqual([4]);
+    expect(Array.from(fit.factor.dropped)).toEqual([4]);
   });
   it("nearly exact fits (residuals 1e-9 … 1e-15 of y): whichever path is taken, the residuals agree with Householder QR's to 1e-13 of their size", () => {
     for (const noise of [1e-9, 1e-12, 1e-15]) {
@@ -72,8 +62,7 @@ describe("which path a fit takes", () => {
     }
   });
   it("switched off: Householder QR", () => {
-    useNormalPath(false);
-    expect(new LeastSquaresFit(problem(2000, 5, 1)).method).toBe("householder");
+    expect(new LeastSquaresFit(problem(2000, 5, 1), { path: "householder" }).method).toBe("householder");
   });
 });
 

@@ -9,7 +9,6 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { LeastSquaresFit } from "../src/core/fit";
-import { useNormalPath } from "../src/core/normal";
 import { normal, rng } from "./helpers/gen";
 
 const EPS = 2.220446049250313e-16;
@@ -35,12 +34,11 @@ const sizes = fc.tuple(fc.integer({ min: 1, max: 60 }), fc.integer({ min: 0, max
 
 describe("factorization identities", () => {
   it("reconstruction: X̃(:, kept) ≈ Q·R to a few ε relative (Householder path)", () => {
-    const was = useNormalPath(false);
     fc.assert(
       fc.property(sizes, ([m, k, seed, spread, intercept]) => {
         const { x, y } = problem(m, k, seed, spread);
-        const fit = new LeastSquaresFit({ y, x, rows: m, cols: k, intercept });
-        const { qr } = fit;
+        const fit = new LeastSquaresFit({ y, x, rows: m, cols: k, intercept }, { path: "householder" });
+        const qr = fit.householder!;
         const n = fit.n;
         const r = qr.rank;
         const Q = qr.thinQ(r);
@@ -59,7 +57,6 @@ describe("factorization identities", () => {
       }),
       runs,
     );
-    useNormalPath(was);
   });
 
   it("backward error of the residual ‖X̃ᵀr̃‖ / (‖X̃‖‖r̃‖ ε max(m,n)) ≤ 10 on full-rank problems", () => {
@@ -67,7 +64,7 @@ describe("factorization identities", () => {
       fc.property(sizes, ([m, k, seed, spread, intercept]) => {
         const { x, y } = problem(m, k, seed, spread);
         const fit = new LeastSquaresFit({ y, x, rows: m, cols: k, intercept });
-        fc.pre(fit.qr.dropped.length === 0 && fit.rank > 0 && fit.n > fit.rank);
+        fc.pre(fit.factor.dropped.length === 0 && fit.rank > 0 && fit.n > fit.rank);
         const n = fit.n;
         const r = fit.residScaled;
         let rn = 0;
@@ -76,7 +73,7 @@ describe("factorization identities", () => {
         fc.pre(rn > 0);
         let xn = 0;
         let g = 0;
-        for (const c of fit.qr.kept) {
+        for (const c of fit.factor.kept) {
           let d = 0;
           const col = fit.designColumn(c);
           for (let i = 0; i < n; i++) {

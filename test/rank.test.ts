@@ -5,7 +5,8 @@
  */
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { HouseholderQR, defaultTolerance } from "../src/core/qr";
+import { HouseholderQR } from "../src/core/qr";
+import { defaultTolerance } from "../src/core/tolerances";
 import { LsqError } from "../src/core/errors";
 import { exactRank, normalizeColumns, rng, singularValues, withSingularValues } from "./helpers/gen";
 

@@ -8,9 +8,7 @@
 import { readFileSync } from "node:fs";
 import { resolve } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { LeastSquaresFit } from "../src/core/fit";
-import { useNormalPath } from "../src/core/normal";
-import { useKernels } from "../src/core/kernels";
+import { LeastSquaresFit, type FitOptions } from "../src/core/fit";
 import { fUpper, tQuantile, tTwoSided } from "../src/core/distributions";
 
 interface Problem {
@@ -54,13 +52,13 @@ const ref = JSON.parse(readFileSync(resolve(__dirname, "fixtures/reference.json"
 
 const SOURCE = `${ref.generator} (seed ${ref.seed}; mpmath ${ref.mpmath}, numpy ${ref.numpy})`;
 
-function fitOf(pr: Problem): LeastSquaresFit {
+function fitOf(pr: Problem, options: FitOptions = {}): LeastSquaresFit {
   const m = pr.rows;
   const k = pr.cols;
   const x = new Float64Array(m * k);
   for (let j = 0; j < k; j++) for (let i = 0; i < m; i++) x[j * m + i] = pr.x[i]![j] ?? NaN;
   const y = Float64Array.from(pr.y, (v) => v ?? NaN);
-  return new LeastSquaresFit({ y, x, rows: m, cols: k, intercept: pr.intercept, weights: pr.weights ? Float64Array.from(pr.weights) : null, degree: pr.degree });
+  return new LeastSquaresFit({ y, x, rows: m, cols: k, intercept: pr.intercept, weights: pr.weights ? Float64Array.from(pr.weights) : null, degree: pr.degree }, options);
 }
 
 function relErr(got: number, want: number): number {
@@ -81,21 +79,12 @@ describe(`reference fits from ${SOURCE}`, () => {
     { fast: false, kernels: true },
     { fast: true, kernels: false },
   ])("fast path allowed: $fast, WebAssembly kernels: $kernels", ({ fast, kernels }) => {
-    let was = true;
-    let wasK = true;
-    beforeAll(() => {
-      was = useNormalPath(fast);
-      wasK = useKernels(kernels);
-    });
-    afterAll(() => {
-      useNormalPath(was);
-      useKernels(wasK);
-    });
+    const options: FitOptions = { path: fast ? "auto" : "householder", kernels };
     for (const pr of ref.problems) {
       it(`${pr.name}: rank, coefficients, standard errors, σ, R², fitted values, residuals, leverage`, () => {
-        const fit = fitOf(pr);
+        const fit = fitOf(pr, options);
         expect(fit.rank, "rank").toBe(pr.rank);
-        expect(Array.from(fit.qr.dropped), "non-identifiable columns").toEqual(pr.nonIdentifiable);
+        expect(Array.from(fit.factor.dropped), "non-identifiable columns").toEqual(pr.nonIdentifiable);
         const b = fit.coefficients();
         const table = fit.parameterTable(0.95);
         const st = fit.statistics();
@@ -135,7 +124,7 @@ describe(`reference fits from ${SOURCE}`, () => {
         for (const key of Object.keys(tol)) expect(worst[key], `${pr.name} ${key}: worst relative error ${worst[key]} > ${tol[key]} (${SOURCE})`).toBeLessThanOrEqual(tol[key]!);
       });
       it(`${pr.name}: prediction with standard errors, studentized residuals and Cook's distance`, () => {
-        const fit = fitOf(pr);
+        const fit = fitOf(pr, options);
         const st = fit.statistics();
         const kappa = typeof st.conditionNumber === "number" ? st.conditionNumber : 1;
         if (pr.prediction) {
@@ -165,7 +154,7 @@ describe(`reference fits from ${SOURCE}`, () => {
     it("both paths are exercised", () => {
       const counts: Record<string, number> = {};
       for (const pr of ref.problems) {
-        const m = fitOf(pr).method;
+        const m = fitOf(pr, options).method;
         counts[m] = (counts[m] ?? 0) + 1;
       }
       console.log(`fast path allowed: ${fast}, kernels: ${kernels}; fits by method: ${JSON.stringify(counts)}`);

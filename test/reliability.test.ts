@@ -93,7 +93,7 @@ describe("size limits (README 'Size limits')", () => {
         throw new Error("expected a refusal");
       } catch (e) {
         expect(e).toBeInstanceOf(SheetError);
-        expect((e as SheetError).code).toBe("#NUM!");
+        expect((e as SheetError).code).toBe("#VALUE!");
       }
     };
     // cells: m·(k + 1) with k = 1, no weights
@@ -105,7 +105,7 @@ describe("size limits (README 'Size limits')", () => {
     expect(() => checkSize(m, 99, false, 100)).not.toThrow();
     throwsNum(() => checkSize(m + 1, 99, false, 100));
   });
-  it("answers #NUM! with the reason through the host path for too many parameters", () => {
+  it("answers #VALUE! with the reason through the host path for too many parameters", () => {
     const k = LIMITS.maxParameters; // + intercept = one too many
     const x = Array.from({ length: 3 }, (_, i) => Array.from({ length: k }, (_, j) => i + j));
     try {
@@ -113,7 +113,7 @@ describe("size limits (README 'Size limits')", () => {
       throw new Error("expected an error value");
     } catch (e) {
       expect(e).toBeInstanceOf(HostError);
-      expect((e as HostError).code).toBe("#NUM!");
+      expect((e as HostError).code).toBe("#VALUE!");
       expect((e as HostError).message).toMatch(/201 parameters; the LSQ functions accept at most 200/);
     }
   });

@@ -4,7 +4,7 @@
  * norms of R; the column norms of R equal those of the design because Q is orthogonal).
  */
 import { Matrix, SingularValueDecomposition } from "ml-matrix";
-import type { HouseholderQR } from "./qr";
+import type { Factor } from "./qr";
 
 export interface Conditioning {
   /** Condition number of the kept design with unit columns. */
@@ -15,7 +15,7 @@ export interface Conditioning {
   sigmaMin: number;
 }
 
-export function conditionNumber(qr: HouseholderQR): Conditioning {
+export function conditionNumber(qr: Factor): Conditioning {
   const r = qr.rank;
   if (r === 0) return { value: NaN, weakest: new Float64Array(0), sigmaMin: 0 };
   let dmin = Infinity;

@@ -31,6 +31,11 @@ export interface ModelSpec {
   readonly degree?: number;
   /** Rank tolerance (see qr.ts); NaN/undefined = default. */
   readonly tolerance?: number;
+  /**
+   * The weights are 1/u² from known standard uncertainties u of y: the covariance is not rescaled
+   * by the residual scatter (σ = 1) and intervals use the normal distribution (inference.ts).
+   */
+  readonly varianceKnown?: boolean;
 }
 
 /** Why an input row is not part of the fit. */

@@ -1,11 +1,15 @@
 /**
- * Tail probabilities and quantiles of Student's t and Fisher's F distributions, from the
- * stdlib-js special functions (regularized incomplete beta and the stdlib quantile functions),
- * not hand-written. Upper tails are taken directly from the incomplete beta function so that
- * small p-values keep their relative accuracy (1 − cdf would lose them).
+ * Tail probabilities and quantiles of Student's t, Fisher's F, the normal and the χ²
+ * distributions, from the stdlib-js special functions (regularized incomplete beta and gamma, the
+ * complementary error function and the stdlib quantile functions), not hand-written. Upper tails
+ * are taken directly from the incomplete beta or gamma function so that small p-values keep their
+ * relative accuracy (1 − cdf would lose them).
  */
 import betainc from "@stdlib/math-base-special-betainc";
+import gammainc from "@stdlib/math-base-special-gammainc";
+import erfc from "@stdlib/math-base-special-erfc";
 import tQuantileStdlib from "@stdlib/stats-base-dists-t-quantile";
+import normalQuantileStdlib from "@stdlib/stats-base-dists-normal-quantile";
 
 /** Two-sided p-value P(|T| ≥ |t|) for T ~ t(df), df > 0: I_{df/(df+t²)}(df/2, 1/2). */
 export function tTwoSided(t: number, df: number): number {
@@ -29,4 +33,23 @@ export function fUpper(f: number, d1: number, d2: number): number {
 /** The p-quantile of t(df): the value q with P(T ≤ q) = p. */
 export function tQuantile(p: number, df: number): number {
   return tQuantileStdlib(p, df);
+}
+
+/** The p-quantile of the standard normal distribution. */
+export function normalQuantile(p: number): number {
+  return normalQuantileStdlib(p, 0, 1);
+}
+
+/** Two-sided p-value P(|Z| ≥ |z|) for a standard normal Z: erfc(|z|/√2). */
+export function normalTwoSided(z: number): number {
+  if (Number.isNaN(z)) return NaN;
+  return erfc(Math.abs(z) / Math.SQRT2);
+}
+
+/** Upper tail P(X ≥ x) for X ~ χ²(k): the regularized upper incomplete gamma Q(k/2, x/2). */
+export function chiSquareUpper(x: number, k: number): number {
+  if (!(k > 0) || Number.isNaN(x)) return NaN;
+  if (x <= 0) return 1;
+  if (!Number.isFinite(x)) return 0;
+  return gammainc(x / 2, k / 2, true, true);
 }

@@ -4,12 +4,10 @@
  * The functions layer alone maps `kind` to a spreadsheet error value.
  */
 export type LsqErrorKind =
-  /** An argument has the wrong shape or type (maps to #VALUE!). */
+  /** An argument has the wrong shape or type (maps to #VALUE!, with the message). */
   | "shape"
-  /** A number is outside the allowed range (maps to #NUM!). */
-  | "range"
-  /** Not enough usable data to compute the result (maps to #N/A or #DIV/0!). */
-  | "data";
+  /** A number is outside the allowed range (maps to #VALUE!, with the message). */
+  | "range";
 
 export class LsqError extends Error {
   readonly kind: LsqErrorKind;

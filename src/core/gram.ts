@@ -21,7 +21,7 @@
  * Per row and pair of columns this costs three multiplications and three additions, against
  * about twenty operations for a TwoProduct/TwoSum pair in `ddGram`.
  */
-import { EPS } from "./qr";
+import { EPS } from "./tolerances";
 import { columnView, type DDMatrix } from "./refine";
 import type { Workspace } from "./kernels";
 import { twoProd, type DD } from "./dd";

@@ -9,7 +9,7 @@
  * (`Workspace.scratch`), grown when needed.
  *
  * Every kernel has a JavaScript twin (qr.ts, refine.ts, gram.ts) that is used when WebAssembly
- * with SIMD is not available, or is switched off with `useKernels(false)` (tests compare both).
+ * with SIMD is not available, or when a fit is made with the option `kernels: false` (tests compare both).
  * The module is compiled synchronously when the platform allows it (Node.js; browsers allow
  * small modules) and otherwise in the background, the JavaScript twins serving until it is ready.
  */
@@ -25,7 +25,6 @@ export interface KernelExports {
 }
 
 let compiled: WebAssembly.Module | null = null;
-let enabled = true;
 let failed = false;
 
 /** The module's bytes, decoded from base64 here (no atob: some hosts' sandboxes lack it). */
@@ -72,22 +71,17 @@ function load(): WebAssembly.Module | null {
   return compiled;
 }
 
-/** Switch the WebAssembly kernels on or off (for tests and benchmarks); returns the previous setting. */
-export function useKernels(on: boolean): boolean {
-  const was = enabled;
-  enabled = on;
-  return was;
-}
-
-/** Whether new workspaces will use the WebAssembly kernels. */
+/** Whether the WebAssembly kernels can run here (a fit uses them unless its options say `kernels: false`). */
 export function kernelsAvailable(): boolean {
-  return enabled && load() !== null;
+  return load() !== null;
 }
 
 const PAGE = 65536;
 
-/** Largest shared scratch workspace kept between calls, in doubles (128 MB). */
-const SCRATCH_CAP = 2 ** 24;
+/** Largest shared scratch workspace kept between calls, in doubles (32 MiB): larger work gets a workspace of its own, freed afterwards. */
+const SCRATCH_CAP = 2 ** 22;
+/** The same cap in bytes (part of the add-in's memory budget, functions/budget.ts). */
+export const SCRATCH_BYTES = SCRATCH_CAP * 8 + 2 * 65536;
 
 export class Workspace {
   readonly memory: WebAssembly.Memory;
@@ -110,7 +104,6 @@ export class Workspace {
    * a workspace of its own is made instead. Null when the kernels are not available.
    */
   static scratch(doubles: number): Workspace | null {
-    if (!enabled) return null;
     if (doubles > SCRATCH_CAP) return Workspace.create(doubles);
     let ws = Workspace.shared;
     if (!ws) {
@@ -151,7 +144,6 @@ export class Workspace {
    * to an even count of doubles), or null when the kernels are not available or memory is refused.
    */
   static create(doubles: number): Workspace | null {
-    if (!enabled) return null;
     return Workspace.make(0, doubles);
   }
 
@@ -175,11 +167,6 @@ export class Workspace {
 
   release(mark: number): void {
     this.top = mark;
-  }
-
-  /** Byte offset of a region returned by alloc (or of element `at` within it). */
-  ptr(region: Float64Array, at = 0): number {
-    return region.byteOffset + 8 * at;
   }
 
   /** Whether `a` lives in this workspace's memory. */

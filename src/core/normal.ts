@@ -30,8 +30,9 @@ import { conditionNumber } from "./condition";
 import { SPLITTER, type DD } from "./dd";
 import { gramResidual, gramScratch, splitGram, splitGramBound, type BoundedGram } from "./gram";
 import type { Workspace } from "./kernels";
-import { EPS, HouseholderQR } from "./qr";
-import { axpy2, columnView, dot2, RATE, type DDMatrix } from "./refine";
+import { HouseholderQR } from "./qr";
+import { EPS } from "./tolerances";
+import { axpy2, columnView, dot2, StopRule, type DDMatrix } from "./refine";
 import { exponentOf, pow2 } from "./scale";
 
 /** The leading p × p block of a q × q column-major matrix. */
@@ -39,20 +40,6 @@ function block(a: Float64Array, q: number, p: number): Float64Array {
   const out = new Float64Array(p * p);
   for (let j = 0; j < p; j++) out.set(a.subarray(j * q, j * q + p), j * p);
   return out;
-}
-
-let enabled = true;
-
-/** Switch the fast path on or off (tests compare both paths); returns the previous setting. */
-export function useNormalPath(on: boolean): boolean {
-  const was = enabled;
-  enabled = on;
-  return was;
-}
-
-/** Whether the fit tries the fast path first. */
-export function normalPathEnabled(): boolean {
-  return enabled;
 }
 
 export interface NormalSolution {
@@ -204,7 +191,7 @@ export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array
   const xh = new Float64Array(p);
   const xl = new Float64Array(p);
   const d = new Float64Array(p);
-  let prev = Infinity;
+  const rule = new StopRule();
   let steps = 0;
   let converged = false;
   for (let step = 0; step < 12; step++) {
@@ -217,7 +204,10 @@ export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array
       nd = Math.max(nd, Math.abs(d[i]!));
       nx = Math.max(nx, Math.abs(xh[i]!));
     }
-    if (step > 0 && !(nd < prev)) break;
+    // The engine's stopping rule (refine.ts) with the attainable level: the remaining iteration
+    // error, at most √p·(correction) in 2-norm, stays below level·‖x‖₂/2.
+    const verdict = rule.judge(nd, (0.5 * level * nx) / Math.sqrt(p));
+    if (verdict === "reject") break;
     for (let i = 0; i < p; i++) {
       const s = xh[i]! + d[i]!;
       const bb = s - xh[i]!;
@@ -225,15 +215,11 @@ export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array
       xh[i] = s;
     }
     steps = step + 1;
-    // Converged when this correction, or the next one predicted from the observed rate, is below
-    // the attainable level.
-    // (stop level: the remaining iteration error, at most √p·tiny in 2-norm, stays below level·‖x‖₂/2)
-    const stop = (0.5 * level * nx) / Math.sqrt(p);
-    if (step > 0 && (nd <= stop || (step > 1 && nd <= RATE * prev && (nd * nd) / prev <= 0.5 * stop))) {
-      converged = true;
+    if (verdict !== "continue") {
+      // (a first correction cannot show convergence: it is the solution itself)
+      converged = verdict === "converged" && step > 0;
       break;
     }
-    prev = nd;
   }
   if (!converged) return finish(null);
   // Normalize x and check that a correction below the attainable level was reached.

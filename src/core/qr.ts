@@ -28,7 +28,7 @@
  * up to several hundred columns).
  *
  * ## Tolerance `tol`
- * - Default: `defaultTolerance(m, p) = 10 · √(m·p) · ε` with ε = 2^-52. Householder QR is
+ * - Default: `defaultTolerance(m, p) = 10 · √(m·p) · ε` with ε = 2^-52 (tolerances.ts). Householder QR is
  *   column-wise backward stable: the computed R is exact for A + ΔA with ‖Δa_j‖ ≤ c·m·p·ε·‖a_j‖
  *   in the worst case and about √(m·p)·ε·‖a_j‖ in practice (errors add like a random walk). A
  *   column whose distance from the earlier columns is within that perturbation cannot be told
@@ -48,8 +48,32 @@
  */
 import { LsqError } from "./errors";
 import type { Workspace } from "./kernels";
+import { defaultTolerance } from "./tolerances";
 
-export const EPS = 2.220446049250313e-16;
+/**
+ * What the rest of the engine may ask of a triangular factor, whichever path made it: R, the kept
+ * columns (the one rank decision) and the two triangular solves. On the Householder path it is the
+ * QR of the design; on the fast path (normal.ts) the QR of the p × p Cholesky factor, where Q is
+ * not the design's, so Q operations are offered only by `HouseholderQR` itself.
+ */
+export interface Factor {
+  /** Number of kept columns. */
+  readonly rank: number;
+  /** Design columns kept, in order (length = rank). */
+  readonly kept: Int32Array;
+  /** Design columns found non-identifiable, in order. */
+  readonly dropped: Int32Array;
+  /** For each design column j: how many kept columns precede it. */
+  readonly keptBefore: Int32Array;
+  /** The rank tolerance used (tolerances.ts). */
+  readonly tolerance: number;
+  /** R(i, k) for i ≤ k < rank. */
+  r(i: number, k: number): number;
+  /** Solve R(0:nk, 0:nk) z = v in place. */
+  solveR(nk: number, v: Float64Array, off?: number): void;
+  /** Solve R(0:nk, 0:nk)ᵀ z = v in place. */
+  solveRt(nk: number, v: Float64Array, off?: number): void;
+}
 
 /** Reflectors are applied in groups of this many as one block reflector I − V T Vᵀ (compact WY). */
 const GROUP = 4;
@@ -59,12 +83,7 @@ export function tmatLength(m: number, p: number): number {
   return Math.ceil(Math.min(m, p) / GROUP) * GROUP * GROUP;
 }
 
-/** Default rank tolerance for an m×p design (see the module comment for why). */
-export function defaultTolerance(m: number, p: number): number {
-  return 10 * Math.sqrt(Math.max(1, m) * Math.max(1, p)) * EPS;
-}
-
-export class HouseholderQR {
+export class HouseholderQR implements Factor {
   /** Number of rows. */
   readonly m: number;
   /** Number of columns visited (design columns). */
@@ -79,8 +98,6 @@ export class HouseholderQR {
   readonly dropped: Int32Array;
   /** For each design column j: how many kept columns precede it. */
   readonly keptBefore: Int32Array;
-  /** For each design column j: ‖(I − P) a_j‖ / ‖a_j‖ at the moment of its decision (0 for a zero column). */
-  readonly remainderRatio: Float64Array;
   /** The tolerance actually used. */
   readonly tolerance: number;
   /** Rank: number of kept columns. */
@@ -117,7 +134,6 @@ export class HouseholderQR {
     this.keptBuilding = kept;
     const dropped: number[] = [];
     const keptBefore = new Int32Array(p);
-    const ratio = new Float64Array(p);
     let k = 0;
     const keptNorm = new Float64Array(Math.min(m, p));
     this.ws = ws && ws.holds(a) ? ws : null;
@@ -134,7 +150,6 @@ export class HouseholderQR {
       for (let q = full; q < k; q++) applyReflector(a, kept[q]! * m, q, m, tau[q]!, cj);
       keptBefore[j] = k;
       const rest = k < m ? nrm2(a, cj + k, m - k) : 0;
-      ratio[j] = norm0 > 0 ? rest / norm0 : 0;
       // Size of the relation's terms: Σ |z_i|·‖a_i‖ with R z = (Qᵀ a_j)(0:k).
       let terms = 0;
       if (k > 0 && norm0 > 0) {
@@ -162,7 +177,6 @@ export class HouseholderQR {
     this.keptBuilding = null;
     this.dropped = Int32Array.from(dropped);
     this.keptBefore = keptBefore;
-    this.remainderRatio = ratio;
     this.rank = k;
   }
 

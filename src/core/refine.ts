@@ -17,14 +17,12 @@
  *     f = b − r − A x,  g = c − Aᵀ r
  *     h = R⁻ᵀ g,  d = Qᵀ f,  δx = R⁻¹ (d₁ − h),  δr = Q [h; d₂]
  *
- * Starting from r = 0, x = 0 the first step is the ordinary QR solution. A right-hand side
- * stops when its correction is below ε‖x‖, or when the next correction predicted from the
- * observed rate (nd²/prev, measured between two corrections and at most √ε) is below half of
- * that, or when it no longer shrinks by half (a correction that grew is not applied), or after
- * `maxSteps`.
+ * Starting from r = 0, x = 0 the first step is the ordinary QR solution. Each right-hand side
+ * stops by the one stopping rule of the engine (`StopRule` below) with the level ε‖x‖, or after
+ * `maxSteps` (12 by default; the accuracy benchmark asks for 1 to show the unrefined solution).
  */
 import type { HouseholderQR } from "./qr";
-import { EPS } from "./qr";
+import { EPS } from "./tolerances";
 import { SPLITTER, type DD } from "./dd";
 
 /**
@@ -77,6 +75,37 @@ export interface RefineResult {
  */
 export const RATE = 2 ** -26;
 
+/** What the stopping rule says about one correction. */
+export type Verdict = "reject" | "converged" | "stalled" | "continue";
+
+/**
+ * The one stopping rule of every refinement in the engine (coefficients and covariance on the
+ * augmented system, the fast path's parameter-space iteration, the Gram-based covariance):
+ *
+ * - a correction that did not shrink (from the second on) is rejected: not applied, stop;
+ * - converged when the correction is at most `level` (the size below which it no longer changes
+ *   the result, e.g. ε‖x‖), or when the next one, predicted from the observed rate as nd²/prev,
+ *   is at most half of it — trusted only when the rate was measured between two corrections
+ *   (from the third correction on: the first ratio compares a correction with the solution
+ *   itself) and is fast (≤ RATE);
+ * - stalled (stop, not converged) when a correction shrank by less than half;
+ * - otherwise continue.
+ *
+ * Every verdict but "reject" comes after the caller has applied the correction.
+ */
+export class StopRule {
+  private prev = Infinity;
+  private count = 0;
+  judge(nd: number, level: number): Verdict {
+    const step = this.count++;
+    if (step > 0 && !(nd < this.prev)) return "reject";
+    if (nd <= level || (step > 1 && nd <= RATE * this.prev && (nd * nd) / this.prev <= 0.5 * level)) return "converged";
+    if (step > 0 && nd > 0.5 * this.prev) return "stalled";
+    this.prev = nd;
+    return "continue";
+  }
+}
+
 /** Work vectors of m doubles that refineAugmented takes from a workspace (f, comp, two halves, two slots). */
 export const REFINE_SCRATCH = 6;
 
@@ -127,7 +156,7 @@ export function refineAugmented(
   for (let t = 0; t < nr; t++) {
     const xo = t * nk;
     const ro = t * m;
-    let prev = Infinity;
+    const rule = new StopRule();
     for (let step = 0; step < maxSteps; step++) {
       if (step === 0) {
         // r = 0, x = 0: the residuals are the right-hand sides themselves.
@@ -175,20 +204,15 @@ export function refineAugmented(
         nd = Math.max(nd, Math.abs(dx[k]!));
         nx = Math.max(nx, Math.abs(x[xo + k]! + dx[k]!));
       }
-      if (step > 0 && !(nd < prev)) break; // stagnated or diverging: keep the last iterate
+      const verdict = rule.judge(nd, EPS * nx);
+      if (verdict === "reject") break; // stagnated or diverging: keep the last iterate
       for (let k = 0; k < nk; k++) x[xo + k]! += dx[k]!;
       for (let i = 0; i < m; i++) r[ro + i]! += f[i]!;
       steps[t] = step + 1;
-      // Converged when this correction is below ε‖x‖, or when the next one, predicted from the
-      // observed rate of convergence (nd / prev), would be below half of that — trusted only when
-      // the rate is measured between two corrections (from step 2 on: the first ratio compares a
-      // correction with the solution itself) and is fast (≤ RATE).
-      if (nd <= EPS * nx || (step > 1 && nd <= RATE * prev && (nd * nd) / prev <= 0.5 * EPS * nx)) {
-        converged[t] = true;
+      if (verdict !== "continue") {
+        converged[t] = verdict === "converged";
         break;
       }
-      if (step > 0 && nd > 0.5 * prev) break;
-      prev = nd;
     }
   }
   if (ws) ws.release(mark);

@@ -6,9 +6,22 @@
  * never concatenated into markup: the pane renders every part with textContent, and
  * `findingText` joins the parts into a single plain string for a cell. Labels come from the
  * workbook and are treated as opaque text.
+ *
+ * Every threshold comes from src/core/tolerances.ts; every decision about the fit (rank, exact
+ * fit) is read from the fit, never made again here.
  */
 import type { Dependency, LeastSquaresFit } from "../core/fit";
 import { RowStatus } from "../core/design";
+import {
+  CONDITION_NOTE,
+  CONDITION_WARN,
+  DOUBLE_DIGITS,
+  LACK_OF_FIT_ALPHA,
+  LARGE_RESIDUAL,
+  LEVERAGE_FACTOR,
+  RELATION_TERM_SHARE,
+  WEAK_DIRECTION_SHARE,
+} from "../core/tolerances";
 
 export type Severity = "problem" | "warning" | "note" | "ok";
 
@@ -18,23 +31,33 @@ export type Part =
   | { readonly kind: "number"; readonly value: number; readonly text: string }
   | { readonly kind: "rows"; readonly rows: readonly number[]; readonly text: string };
 
+export type FindingId =
+  | "none"
+  | "arguments"
+  | "too-few-rows"
+  | "no-rows"
+  | "dependent-columns"
+  | "duplicates-intercept"
+  | "zero-column"
+  | "near-dependence"
+  | "skipped-rows"
+  | "zero-df"
+  | "exact-fit"
+  | "constant-y"
+  | "zero-weights"
+  | "lack-of-fit"
+  | "curvature"
+  | "chi-square"
+  | "high-leverage"
+  | "large-residual"
+  | "extrapolation"
+  | "possible-blanks"
+  | "x-uncertainty"
+  | "refinement";
+
 export interface Finding {
   /** Stable identifier of the kind of finding. */
-  readonly id:
-    | "none"
-    | "too-few-rows"
-    | "no-rows"
-    | "dependent-columns"
-    | "duplicates-intercept"
-    | "zero-column"
-    | "near-dependence"
-    | "skipped-rows"
-    | "zero-df"
-    | "exact-fit"
-    | "zero-weights"
-    | "high-leverage"
-    | "large-residual"
-    | "refinement";
+  readonly id: FindingId;
   readonly severity: Severity;
   /** What was found. */
   readonly what: readonly Part[];
@@ -44,9 +67,6 @@ export interface Finding {
   readonly advice: readonly Part[];
 }
 
-/** Why a row was skipped, by row (1-based input row → reason words). */
-export type RowReason = (row: number) => string;
-
 export interface FindingsInput {
   readonly fit: LeastSquaresFit;
   /** Labels of the design columns (intercept first when present). */
@@ -55,15 +75,38 @@ export interface FindingsInput {
   readonly skipReason?: (row: number) => string;
   /** Row numbers shown to the user for input row i (0-based); default i + 1. */
   readonly rowNumber?: (row: number) => number;
+  /** What the weights range held (default relative). */
+  readonly weighting?: "relative" | "uncertainty";
+  /** "sheet" (default): words for cell formulas; "preview": words for the pane's pasted data. */
+  readonly where?: "sheet" | "preview";
+  /** New x rows asked about (PREDICT), q × k column-major. */
+  readonly newx?: { readonly data: Float64Array; readonly rows: number };
+  /** New readings asked about (INVERSE). */
+  readonly newy?: Float64Array;
+  /** Rows whose zeros may be empty cells the host passed as 0 (see functions/blanks.ts), by column name. */
+  readonly possibleBlanks?: { readonly rows: readonly number[]; readonly columns: readonly string[] };
 }
 
 const text = (t: string): Part => ({ kind: "text", text: t });
 const label = (t: string): Part => ({ kind: "label", text: t });
 const num = (v: number, digits = 3): Part => ({ kind: "number", value: v, text: formatNumber(v, digits) });
-const rows = (r: readonly number[], max = 10): Part => {
-  const shown = r.slice(0, max).join(", ");
-  return { kind: "rows", rows: r, text: r.length > max ? `${shown} and ${r.length - max} more` : shown };
-};
+
+/** "1", "1 and 2", "1, 2 and 3"; past `max`, "1, 2, …, 10 and 5 more". */
+export function listText(items: readonly (string | number)[], max = 10): string {
+  const shown = items.slice(0, max).map(String);
+  if (items.length > max) return `${shown.join(", ")} and ${items.length - max} more`;
+  if (shown.length <= 1) return shown.join("");
+  return `${shown.slice(0, -1).join(", ")} and ${shown[shown.length - 1]}`;
+}
+
+const rows = (r: readonly number[], max = 10): Part => ({ kind: "rows", rows: r, text: listText(r, max) });
+
+/** "row" or "rows" by count, with the verb agreeing: plural(1, "row", "has", "have") → "row has". */
+export function plural(n: number, noun: string, one = "", many = ""): string {
+  const nn = n === 1 ? noun : `${noun}s`;
+  const v = n === 1 ? one : many;
+  return v ? `${nn} ${v}` : nn;
+}
 
 /** A number in plain notation with up to `digits` significant digits (trailing zeros dropped). */
 export function formatNumber(v: number, digits = 6): string {
@@ -79,19 +122,25 @@ export function formatNumber(v: number, digits = 6): string {
   return `${mant}e${e}`;
 }
 
-/** Positions of the terms of a relation that matter: contribution above 1e-9 of the largest. */
+/** A p-value for people: the value, or "< 1e-300" where it underflows (never "0"). */
+export function formatP(p: number): string {
+  if (p < 1e-300) return "< 1e-300";
+  return formatNumber(p, 2);
+}
+
+/** Positions of the terms of a relation that matter: contribution above RELATION_TERM_SHARE of the largest. */
 export function significantTerms(dep: Dependency): number[] {
   const big = Math.max(0, ...Array.from(dep.scaled, Math.abs));
   const out: number[] = [];
   dep.scaled.forEach((v, t) => {
-    if (Math.abs(v) > 1e-9 * big) out.push(t);
+    if (Math.abs(v) > RELATION_TERM_SHARE * big) out.push(t);
   });
   return out;
 }
 
 /**
  * The relation of a dependency in the user's labels, e.g. "Temp °F = 32 + 1.8 × Temp °C".
- * Terms whose contribution is below 1e-9 of the largest are left out.
+ * Terms whose contribution is below RELATION_TERM_SHARE of the largest are left out.
  */
 export function relationParts(dep: Dependency, labels: readonly string[], interceptCol: number): Part[] {
   const parts: Part[] = [label(labels[dep.column] ?? `column ${dep.column + 1}`), text(" = ")];
@@ -126,41 +175,33 @@ export function findingText(f: Finding): string {
     .join(" ");
 }
 
-/** Thresholds used by the findings (documented in the README). */
-export const THRESHOLDS = {
-  /** Condition number above which near-dependence is noted. */
-  conditionNote: 1e4,
-  /** … and above which it is a warning. */
-  conditionWarn: 1e8,
-  /** |studentized residual| above which a row is noted. */
-  largeResidual: 3,
-};
-
 /** All findings for a fit, most serious first. */
 export function findings(input: FindingsInput): Finding[] {
   const { fit, labels } = input;
+  const sheet = input.where !== "preview";
   const rowNo = input.rowNumber ?? ((i: number) => i + 1);
   const out: Finding[] = [];
   const st = fit.statistics();
-  const exact = isExactFit(fit);
+  const exact = fit.exact;
   const p = fit.parameters;
   const n = fit.n;
   const interceptCol = fit.spec.intercept ? 0 : -1;
+  const weighted = !!fit.spec.weights;
 
   if (n === 0) {
     out.push({
       id: "no-rows",
       severity: "problem",
-      what: [text("No row has a usable y, every x value"), text(fit.spec.weights ? " and a positive weight." : ".")],
+      what: [text(weighted ? "No row has a usable y, usable x values and a positive weight." : "No row has both a usable y and usable x values.")],
       done: [text("Nothing could be estimated.")],
-      advice: [text("Check that the ranges point at numbers.")],
+      advice: [text(sheet ? "Check that the ranges point at numbers." : "Check that the data hold numbers.")],
     });
   } else if (n < p) {
     out.push({
       id: "too-few-rows",
       severity: "problem",
-      what: [text("Only "), num(n), text(` usable row${n === 1 ? "" : "s"} for `), num(p), text(" parameters.")],
-      done: [text("The LSQ functions answer #N/A until there are at least as many usable rows as parameters.")],
+      what: [text("Only "), num(n), text(` usable ${plural(n, "row")} for `), num(p), text(" parameters.")],
+      done: [text(sheet ? "The LSQ functions answer #N/A until there are at least as many usable rows as parameters." : "Nothing can be estimated until there are at least as many usable rows as parameters.")],
       advice: [text("Add rows, or use fewer x columns or a lower degree.")],
     });
   }
@@ -175,7 +216,7 @@ export function findings(input: FindingsInput): Finding[] {
         severity: "warning",
         what: [label(name), text(" is zero in every used row.")],
         done: [text("Its coefficient shows #N/A.")],
-        advice: [text("Remove the column, or check the range.")],
+        advice: [text(sheet ? "Remove the column, or check the range." : "Remove the column.")],
       });
       continue;
     }
@@ -187,7 +228,7 @@ export function findings(input: FindingsInput): Finding[] {
         severity: "warning",
         what: [label(name), text(" has the same value ("), num(dep.coef[0]!, 6), text(") in every used row, so it duplicates the intercept.")],
         done: [text("Its coefficient shows #N/A.")],
-        advice: [text("Remove the column, or set intercept to FALSE.")],
+        advice: [text(sheet ? "Remove the column, or set intercept to FALSE." : "Remove the column, or fit without an intercept.")],
       });
       continue;
     }
@@ -201,23 +242,24 @@ export function findings(input: FindingsInput): Finding[] {
     });
   }
 
-  if (typeof st.conditionNumber === "number" && st.conditionNumber >= THRESHOLDS.conditionNote && fit.rank > 1) {
+  if (typeof st.conditionNumber === "number" && st.conditionNumber >= CONDITION_NOTE && fit.rank > 1) {
     const cond = st.conditionNumber;
     const { weakest } = fit.condition();
     const big = Math.max(...Array.from(weakest, Math.abs));
     const involved: Part[] = [];
-    const cols = Array.from(fit.qr.kept).filter((_c, k) => Math.abs(weakest[k]!) >= 0.1 * big);
+    const cols = Array.from(fit.factor.kept).filter((_c, k) => Math.abs(weakest[k]!) >= WEAK_DIRECTION_SHARE * big);
     cols.forEach((c, t) => {
       if (t > 0) involved.push(text(t === cols.length - 1 ? " and " : ", "));
       involved.push(label(labels[c] ?? `column ${c + 1}`));
     });
     const lost = Math.floor(Math.log10(cond));
+    const from = Math.max(1, Math.floor(DOUBLE_DIGITS) + 1 - lost);
     out.push({
       id: "near-dependence",
-      severity: cond >= THRESHOLDS.conditionWarn ? "warning" : "note",
+      severity: cond >= CONDITION_WARN ? "warning" : "note",
       what: [text("Nearly dependent columns: "), ...involved, text(" (condition number "), num(cond, 2), text(").")],
-      done: [text("The estimates are computed to full precision, but a change in the "), num(16 - lost), text("th significant digit of the data can move them: about "), num(lost), text(" significant digits of the coefficients are at risk.")],
-      advice: [text("Centre or rescale x, drop one of the columns, or collect data that separates them.")],
+      done: [text("The estimates are computed to full precision, but a change in the "), text(ordinal(from)), text(" significant digit of the data can move them: about "), num(lost), text(` significant ${plural(lost, "digit")} of the coefficients ${lost === 1 ? "is" : "are"} at risk.`)],
+      advice: [text("Center or rescale x, drop one of the columns, or collect data that separates them.")],
     });
   }
 
@@ -237,11 +279,11 @@ export function findings(input: FindingsInput): Finding[] {
   });
   if (byReason.size > 0) {
     const total = Array.from(byReason.values()).reduce((a, b) => a + b.length, 0);
-    const what: Part[] = [num(total), text(` row${total === 1 ? " was" : "s were"} skipped: `)];
+    const what: Part[] = [num(total), text(` ${plural(total, "row", "was", "were")} skipped: `)];
     let first = true;
     for (const [why, list] of byReason) {
       if (!first) what.push(text("; "));
-      what.push(text(`${why} (row${list.length === 1 ? "" : "s"} `), rows(list), text(")"));
+      what.push(text(`${why} (${plural(list.length, "row")} `), rows(list), text(")"));
       first = false;
     }
     what.push(text("."));
@@ -249,16 +291,28 @@ export function findings(input: FindingsInput): Finding[] {
       id: "skipped-rows",
       severity: "note",
       what,
-      done: [text("They are left out of the fit; FITTED, RESID and INFLUENCE show #N/A for them.")],
-      advice: [text("Fill in the values if they were left out by mistake.")],
+      done: [text(`${total === 1 ? "It is" : "They are"} left out of the fit${sheet ? `; FITTED, RESID and INFLUENCE show #N/A for ${total === 1 ? "it" : "them"}` : ""}.`)],
+      advice: [text(`Fill in the ${total === 1 ? "value" : "values"} if ${total === 1 ? "it was" : "they were"} left out by mistake.`)],
+    });
+  }
+  if (input.possibleBlanks && input.possibleBlanks.rows.length > 0) {
+    const pb = input.possibleBlanks;
+    const c = pb.rows.length;
+    out.push({
+      id: "possible-blanks",
+      severity: "warning",
+      what: [num(c), text(` ${plural(c, "row", "holds", "hold")} a zero in ${listText(pb.columns)} that may be an empty cell: some versions of the spreadsheet pass empty cells to add-ins as 0, and this one could not be asked which cells are empty (${plural(c, "row")} `), rows(pb.rows), text(").")],
+      done: [text(`${c === 1 ? "It is" : "They are"} fitted as real zeros.`)],
+      advice: [text("Mark missing values with text such as n/a or with =NA(), so they are skipped in every version.")],
     });
   }
   if (zeroW.length > 0) {
+    const c = zeroW.length;
     out.push({
       id: "zero-weights",
       severity: "note",
-      what: [num(zeroW.length), text(` row${zeroW.length === 1 ? " has" : "s have"} zero weight (row${zeroW.length === 1 ? "" : "s"} `), rows(zeroW), text(").")],
-      done: [text("They do not count as observations; their fitted values and residuals are still shown.")],
+      what: [num(c), text(` ${plural(c, "row", "has", "have")} zero weight (${plural(c, "row")} `), rows(zeroW), text(").")],
+      done: [text(`${c === 1 ? "It does" : "They do"} not count as ${c === 1 ? "an observation" : "observations"}; ${c === 1 ? "its" : "their"} fitted ${plural(c, "value")} and ${plural(c, "residual")} are still shown.`)],
       advice: [],
     });
   }
@@ -268,46 +322,32 @@ export function findings(input: FindingsInput): Finding[] {
       id: "zero-df",
       severity: "warning",
       what: [text("There are as many usable rows as estimated parameters, so nothing is left to measure the scatter.")],
-      done: [text("Standard errors, tests and intervals show #N/A.")],
+      done: [text(fit.spec.varianceKnown ? "With known uncertainties the standard errors are still given; tests of the fit itself show #N/A." : "Standard errors, tests and intervals show #N/A.")],
       advice: [text("Add rows or use fewer parameters.")],
     });
-  } else if (st.residualDf > 0 && typeof st.rss === "number" && exact) {
+  } else if (n > 0 && st.constantY) {
+    out.push({
+      id: "constant-y",
+      severity: "warning",
+      what: [text(fit.spec.intercept ? "y has the same value in every used row, so there is nothing for the x columns to explain." : "y is zero in every used row.")],
+      done: [text("The coefficients of the x columns are zero; R², F and the tests show #N/A.")],
+      advice: [text(sheet ? "Check that the y range points at the measurements." : "Check that the first column holds the measurements.")],
+    });
+  } else if (st.residualDf > 0 && exact) {
     out.push({
       id: "exact-fit",
       severity: "note",
-      what: [text("The model passes through every used point exactly (the residuals are zero to within rounding).")],
-      done: [text("Standard errors are zero or nearly so; tests and the F statistic are not meaningful.")],
-      advice: [text("Check that y is not computed from x by a formula.")],
+      what: [text("The model passes through every used point: the residuals are zero to within the rounding of the data.")],
+      done: [text("The residuals are shown as 0 and the standard errors as 0; t, F and the likelihood are not meaningful.")],
+      advice: [text("If y should carry measurement scatter, check that it is not computed from x by a formula.")],
     });
   }
 
-  if (st.residualDf > 0 && !exact) {
-    const lev = fit.leverageUsed();
-    const stud = fit.studentizedUsed();
-    const lim = (2 * fit.rank) / n;
-    const hiLev: number[] = [];
-    const bigRes: number[] = [];
-    fit.used.forEach((i, t) => {
-      if (lev[t]! > lim && n > fit.rank + 1) hiLev.push(rowNo(i));
-      if (Math.abs(stud[t]!) > THRESHOLDS.largeResidual) bigRes.push(rowNo(i));
-    });
-    if (hiLev.length > 0)
-      out.push({
-        id: "high-leverage",
-        severity: "note",
-        what: [text(`Row${hiLev.length === 1 ? "" : "s"} `), rows(hiLev), text(` ha${hiLev.length === 1 ? "s" : "ve"} high leverage (above 2p/n = `), num(lim, 3), text("): x values far from the rest, so they pull the fit strongly.")],
-        done: [],
-        advice: [text("Check those rows; INFLUENCE shows leverage and Cook's distance.")],
-      });
-    if (bigRes.length > 0)
-      out.push({
-        id: "large-residual",
-        severity: "note",
-        what: [text(`Row${bigRes.length === 1 ? "" : "s"} `), rows(bigRes), text(` ha${bigRes.length === 1 ? "s a" : "ve"} large studentized residual${bigRes.length === 1 ? "" : "s"} (beyond ±3).`)],
-        done: [],
-        advice: [text("Check for a recording error or an unusual condition.")],
-      });
-  }
+  if (st.residualDf > 0 && !exact && !st.constantY) adequacyFindings(input, out);
+
+  if (st.residualDf > 0 && !exact && !st.constantY) influenceFindings(input, out);
+
+  extrapolationFindings(input, out);
 
   if (!fit.refineConverged) {
     out.push({
@@ -315,7 +355,7 @@ export function findings(input: FindingsInput): Finding[] {
       severity: "warning",
       what: [text("The accuracy check on the solution did not settle.")],
       done: [text("The estimates may have fewer correct digits than usual.")],
-      advice: [text("Rescale or centre x, or remove nearly dependent columns.")],
+      advice: [text("Rescale or center x, or remove nearly dependent columns.")],
     });
   }
 
@@ -325,15 +365,210 @@ export function findings(input: FindingsInput): Finding[] {
   return out.sort((a, b) => order[a.severity] - order[b.severity]);
 }
 
-/** Residuals are zero to within rounding of y. */
-export function isExactFit(fit: LeastSquaresFit): boolean {
-  if (fit.rssScaled === 0) return true;
-  // Compare in scaled units: ‖r̃‖ against rounding of ỹ (max |ỹ| lies in [0.5, 1)).
-  if (!(Math.sqrt(fit.rssScaled) <= 8 * 2.220446049250313e-16 * Math.sqrt(fit.n))) return false;
-  const { used } = fit;
-  let yy = 0;
-  for (let t = 0; t < used.length; t++) yy = Math.max(yy, Math.abs(fit.spec.y[used[t]!]!));
-  return yy > 0;
+function ordinal(k: number): string {
+  const s = k % 100 >= 11 && k % 100 <= 13 ? "th" : k % 10 === 1 ? "st" : k % 10 === 2 ? "nd" : k % 10 === 3 ? "rd" : "th";
+  return `${k}${s}`;
+}
+
+/** Lack of fit (with replicates), the added-term test (without), and χ² with known uncertainties. */
+function adequacyFindings(input: FindingsInput, out: Finding[]): void {
+  const { fit } = input;
+  const advice = [text(fit.shape.k === 1 ? "Try a higher degree, a transformation of x or y, or a narrower range of standards." : "Try adding terms (powers or products of the x columns), a transformation, or a narrower range of data.")];
+  const lof = fit.lackOfFit();
+  if (typeof lof.F === "number" && typeof lof.p === "number" && typeof lof.df === "number") {
+    if (lof.p < LACK_OF_FIT_ALPHA)
+      out.push({
+        id: "lack-of-fit",
+        severity: "problem",
+        what: [text("The model does not follow the data: the scatter between the repeated measurements is much smaller than the scatter about the fitted curve (lack-of-fit F = "), num(lof.F, 4), text(` on ${lof.df} and ${lof.pureErrorDf} degrees of freedom, p = ${formatP(lof.p)}).`)],
+        done: [text("The fit is reported, but its standard errors and intervals assume a model that fits.")],
+        advice,
+      });
+    return;
+  }
+  // No replicates: the added-term test.
+  const at = fit.addedTerm();
+  if (typeof at.t === "number" && typeof at.p === "number" && at.p < LACK_OF_FIT_ALPHA)
+    out.push({
+      id: "curvature",
+      severity: "problem",
+      what: [text(`The model misses curvature in the data: adding ${at.term} to it gives t = `), num(at.t, 3), text(`, p = ${formatP(at.p)}.`)],
+      done: [text("The fit is reported, but its standard errors and intervals assume a model that fits.")],
+      advice,
+    });
+  if (fit.spec.varianceKnown) {
+    const c = fit.chiSquare();
+    if (typeof c.p === "number" && typeof c.chi2 === "number" && c.p < LACK_OF_FIT_ALPHA)
+      out.push({
+        id: "chi-square",
+        severity: "warning",
+        what: [text("The residuals are larger than the stated uncertainties allow: χ² = "), num(c.chi2, 4), text(` on ${c.df} degrees of freedom, p = ${formatP(c.p)}.`)],
+        done: [text("The standard errors use the stated uncertainties as they are, so they are probably too small.")],
+        advice: [text("Check the uncertainties and the model; if the scatter is real, use relative weights instead so it is estimated from the data.")],
+      });
+  }
+}
+
+/** High-leverage rows (with the reason: position or weight) and large studentized residuals. */
+function influenceFindings(input: FindingsInput, out: Finding[]): void {
+  const { fit } = input;
+  const sheet = input.where !== "preview";
+  const rowNo = input.rowNumber ?? ((i: number) => i + 1);
+  const n = fit.n;
+  const lev = fit.leverageUsed();
+  const stud = fit.studentizedUsed();
+  const lim = (LEVERAGE_FACTOR * fit.rank) / n;
+  const w = fit.spec.weights;
+  // Weighted fits: a row's own weight multiplies its leverage (h_i = w_i·x_iᵀ(XᵀWX)⁻¹x_i), so a
+  // row whose leverage would be ordinary with the median weight owes its pull to its weight.
+  const medW = w ? median(Array.from(fit.used, (i) => w[i]!)) : 1;
+  // Single-x designs: the smallest and largest x of evenly spread data always have the largest
+  // leverage (every design of that shape has them), so they are not reported unless isolated or
+  // weighted up.
+  const ends = fit.shape.k === 1 ? expectedEnds(fit) : new Set<number>();
+  const byPosition: number[] = [];
+  const byWeight: number[] = [];
+  const bigRes: number[] = [];
+  fit.used.forEach((i, t) => {
+    const h = lev[t]!;
+    const wi = w ? w[i]! : 1;
+    if (h > lim && n > fit.rank + 1) {
+      if (w && wi > 2 * medW && (h * medW) / wi <= lim) byWeight.push(i);
+      else if (!ends.has(i) || wi > 2 * medW) byPosition.push(i);
+    }
+    if (Math.abs(stud[t]!) > LARGE_RESIDUAL) bigRes.push(i);
+  });
+  const MANY = 5;
+  const top = (list: number[], key: (i: number) => number): number[] => list.slice().sort((a, b) => key(b) - key(a));
+  const levOf = new Map<number, number>();
+  fit.used.forEach((i, t) => levOf.set(i, lev[t]!));
+  const see = sheet ? "INFLUENCE shows leverage and Cook's distance for every row." : "The residual plot marks them.";
+  const levWords = `above ${LEVERAGE_FACTOR}·rank/n = `;
+  if (byPosition.length > 0) {
+    const c = byPosition.length;
+    const shown = top(byPosition, (i) => levOf.get(i)!).map(rowNo);
+    out.push({
+      id: "high-leverage",
+      severity: "note",
+      what:
+        c > MANY
+          ? [num(c), text(` rows have high leverage (${levWords}`), num((LEVERAGE_FACTOR * fit.rank) / n, 3), text("), the largest in rows "), rows(shown, 3), text(": their x values lie far from the rest, so they pull the fit strongly.")]
+          : [text(`${c === 1 ? "Row" : "Rows"} `), rows(shown), text(` ${c === 1 ? "has" : "have"} high leverage (${levWords}`), num((LEVERAGE_FACTOR * fit.rank) / n, 3), text(`): ${c === 1 ? "its x values lie" : "their x values lie"} far from the rest, so ${c === 1 ? "it pulls" : "they pull"} the fit strongly.`)],
+      done: [],
+      advice: [text(`Check ${c === 1 ? "that row" : "those rows"}. ${see}`)],
+    });
+  }
+  if (byWeight.length > 0) {
+    const c = byWeight.length;
+    const shown = top(byWeight, (i) => levOf.get(i)!).map(rowNo);
+    out.push({
+      id: "high-leverage",
+      severity: "note",
+      what: [text(`${c === 1 ? "Row" : "Rows"} `), rows(shown, MANY), text(` ${c === 1 ? "has" : "have"} high leverage (${levWords}`), num((LEVERAGE_FACTOR * fit.rank) / n, 3), text(`) because of ${c === 1 ? "its" : "their"} large ${plural(c, "weight")}, not ${c === 1 ? "its" : "their"} position: with the median weight ${c === 1 ? "it" : "they"} would be ordinary.`)],
+      done: [],
+      advice: [text(`Check that ${c === 1 ? "the weight is" : "the weights are"} right. ${see}`)],
+    });
+  }
+  if (bigRes.length > 0) {
+    const c = bigRes.length;
+    const shown = top(bigRes, (i) => Math.abs(stud[fit.used.indexOf(i)]!)).map(rowNo);
+    out.push({
+      id: "large-residual",
+      severity: "note",
+      what:
+        c > MANY
+          ? [num(c), text(` rows have large studentized residuals (beyond ±${LARGE_RESIDUAL}), the largest in rows `), rows(shown, 3), text(".")]
+          : [text(`${c === 1 ? "Row" : "Rows"} `), rows(shown), text(` ${c === 1 ? "has a large studentized residual" : "have large studentized residuals"} (beyond ±${LARGE_RESIDUAL}).`)],
+      done: [],
+      advice: [text("Check for a recording error or an unusual condition.")],
+    });
+  }
+}
+
+/** Input rows at the two ends of a single-x design whose x values are evenly spread there. */
+function expectedEnds(fit: LeastSquaresFit): Set<number> {
+  const { m } = fit.shape;
+  const xs = Array.from(fit.used, (i) => ({ i, v: fit.spec.x[i]! })).sort((a, b) => a.v - b.v);
+  const distinct: number[] = [];
+  for (const p of xs) if (distinct.length === 0 || distinct[distinct.length - 1] !== p.v) distinct.push(p.v);
+  const out = new Set<number>();
+  if (distinct.length < 4 || m === 0) return out;
+  const gaps = distinct.slice(1).map((v, t) => v - distinct[t]!);
+  const med = median(gaps);
+  const lowGap = gaps[0]!;
+  const highGap = gaps[gaps.length - 1]!;
+  for (const p of xs) {
+    if (p.v === distinct[0] && lowGap <= 2 * med) out.add(p.i);
+    if (p.v === distinct[distinct.length - 1] && highGap <= 2 * med) out.add(p.i);
+  }
+  return out;
+}
+
+function median(v: number[]): number {
+  if (v.length === 0) return NaN;
+  const s = v.slice().sort((a, b) => a - b);
+  const h = s.length >> 1;
+  return s.length % 2 ? s[h]! : 0.5 * (s[h - 1]! + s[h]!);
+}
+
+/** New x rows (PREDICT) or readings (INVERSE) outside the range of the data. */
+function extrapolationFindings(input: FindingsInput, out: Finding[]): void {
+  const { fit } = input;
+  if (fit.n === 0) return;
+  const { k, m } = fit.shape;
+  if (input.newx && input.newx.rows > 0) {
+    const lo = new Float64Array(k).fill(Infinity);
+    const hi = new Float64Array(k).fill(-Infinity);
+    for (const i of fit.used)
+      for (let c = 0; c < k; c++) {
+        const v = fit.spec.x[c * m + i]!;
+        lo[c] = Math.min(lo[c]!, v);
+        hi[c] = Math.max(hi[c]!, v);
+      }
+    const q = input.newx.rows;
+    const outside: number[] = [];
+    for (let t = 0; t < q; t++)
+      for (let c = 0; c < k; c++) {
+        const v = input.newx.data[c * q + t]!;
+        if (Number.isFinite(v) && (v < lo[c]! || v > hi[c]!)) {
+          outside.push(t + 1);
+          break;
+        }
+      }
+    if (outside.length > 0) {
+      const c = outside.length;
+      out.push({
+        id: "extrapolation",
+        severity: "warning",
+        what: [text(`New ${plural(c, "row")} `), rows(outside), text(` of newx ${c === 1 ? "lies" : "lie"} outside the range of the data${k === 1 ? ` (x from ${formatNumber(lo[0]!, 6)} to ${formatNumber(hi[0]!, 6)})` : " in at least one column"}.`)],
+        done: [text(`${c === 1 ? "Its prediction is an extrapolation" : "Their predictions are extrapolations"}: the model has not been checked there.`)],
+        advice: [text("Predict within the range of the data, or add data that cover the new points.")],
+      });
+    }
+  }
+  if (input.newy && input.newy.length > 0) {
+    const f = fit.fittedAndResiduals().fitted;
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (const i of fit.used) {
+      lo = Math.min(lo, f[i]!);
+      hi = Math.max(hi, f[i]!);
+    }
+    const outside: number[] = [];
+    input.newy.forEach((v, t) => {
+      if (Number.isFinite(v) && (v < lo || v > hi)) outside.push(t + 1);
+    });
+    if (outside.length > 0) {
+      const c = outside.length;
+      out.push({
+        id: "extrapolation",
+        severity: "warning",
+        what: [text(`${c === 1 ? "Reading" : "Readings"} `), rows(outside), text(` of newy ${c === 1 ? "lies" : "lie"} outside the calibrated range of responses (${formatNumber(lo, 6)} to ${formatNumber(hi, 6)}).`)],
+        done: [text(`${c === 1 ? "Its value read back from the curve is an extrapolation" : "Their values read back from the curve are extrapolations"} beyond the standards.`)],
+        advice: [text("Dilute or concentrate the sample into the calibrated range, or add standards that cover it.")],
+      });
+    }
+  }
 }
 
 function defaultReason(s: number): string {

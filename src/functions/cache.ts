@@ -1,8 +1,13 @@
 /**
- * A bounded cache of fits keyed by the *content* of their inputs. A hash picks the candidates;
- * a hit is confirmed by the caller's comparison of every input cell, bit for bit, against the
- * stored key, so two inputs that collide in the hash never share a fit. Least recently used
- * entries are evicted when the entry count or the total stored size passes its bound.
+ * A cache of fits keyed by the *content* of their inputs, bounded by the bytes it really keeps.
+ * A hash picks the candidates; a hit is confirmed by the caller's comparison of every input cell,
+ * bit for bit, against the stored key, so two inputs that collide in the hash never share a fit.
+ *
+ * Each entry's size is measured, not estimated: the stored key arrays plus what the value reports
+ * it keeps (`bytesOf`, e.g. a fit's own arrays, its factor and every by-product computed so far).
+ * By-products grow a fit after it was stored (the covariance, the leverage…), so an entry is
+ * measured again each time it is used. Least recently used entries are evicted while the total is
+ * above the byte budget; there is no entry count, so many small fits stay cached together.
  */
 
 export interface KeyParts {
@@ -19,7 +24,7 @@ export interface KeyParts {
 interface Entry<V> {
   readonly hash: number;
   readonly key: KeyParts;
-  readonly size: number;
+  size: number;
   readonly value: V;
 }
 
@@ -29,9 +34,13 @@ export class ContentCache<V> {
   hits = 0;
   misses = 0;
 
+  /**
+   * @param maxBytes - the budget for keys and values together
+   * @param bytesOf - bytes a value keeps alive now (measured from its arrays)
+   */
   constructor(
-    private readonly maxEntries = 32,
-    private readonly maxBytes = 256 * 1024 * 1024,
+    private maxBytes: number,
+    private readonly bytesOf: (v: V) => number,
   ) {}
 
   /**
@@ -55,13 +64,38 @@ export class ContentCache<V> {
 
   /** Store a value under `hash` with its key (see find), evicting the least recently used. */
   insert(hash: number, key: KeyParts, value: V): void {
-    const size = 4 * keySize(key);
+    const size = keySize(key) + this.bytesOf(value);
     this.entries.unshift({ hash, key, size, value });
     this.total += size;
-    while (this.entries.length > this.maxEntries || (this.total > this.maxBytes && this.entries.length > 1)) {
+    this.evict();
+  }
+
+  /**
+   * Measure every entry again (values grow as by-products are computed) and evict the least
+   * recently used ones while the total is above the budget. The most recent entry always stays,
+   * even alone above the budget: it is the fit the caller is using.
+   */
+  settle(): void {
+    let total = 0;
+    for (const e of this.entries) {
+      e.size = keySize(e.key) + this.bytesOf(e.value);
+      total += e.size;
+    }
+    this.total = total;
+    this.evict();
+  }
+
+  private evict(): void {
+    while (this.total > this.maxBytes && this.entries.length > 1) {
       const e = this.entries.pop()!;
       this.total -= e.size;
     }
+  }
+
+  /** Change the budget (bytes); evicts at once when the new one is smaller. */
+  setBudget(maxBytes: number): void {
+    this.maxBytes = maxBytes;
+    this.settle();
   }
 
   clear(): void {
@@ -72,10 +106,19 @@ export class ContentCache<V> {
   get size(): number {
     return this.entries.length;
   }
+
+  /** Bytes accounted for, as of the last insert or settle. */
+  get bytes(): number {
+    return this.total;
+  }
+
+  get budget(): number {
+    return this.maxBytes;
+  }
 }
 
 function keySize(k: KeyParts): number {
-  let s = k.flags.length * 2;
+  let s = k.flags.length * 2 + 256;
   for (const a of k.numbers) s += a.byteLength;
   for (const b of k.bytes) s += b.byteLength;
   return s;

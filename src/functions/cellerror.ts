@@ -3,16 +3,17 @@
  * single-cell error, or placed inside a result array); outside the host (the preview page,
  * tests without the stand-in) a plain object with the same `code` and `message` is used.
  *
- * The host shows a custom message for #VALUE! and #N/A; for #NUM! and #DIV/0! it may show
- * only the code, so LSQ.CHECK and the task pane repeat the reason in words.
+ * The hosts show a custom message only with #VALUE! and #N/A (Office Add-ins documentation, "Handle
+ * and return errors from your custom function",
+ * https://learn.microsoft.com/office/dev/add-ins/excel/custom-functions-errors), so those are the
+ * only two codes the functions return: #VALUE! for an argument the user can correct, #N/A for a
+ * result that does not exist (with the reason).
  */
-export type ErrorCodeText = "#VALUE!" | "#NUM!" | "#N/A" | "#DIV/0!";
+export type ErrorCodeText = "#VALUE!" | "#N/A";
 
 const CODE_NAME: Record<ErrorCodeText, string> = {
   "#VALUE!": "invalidValue",
-  "#NUM!": "invalidNumber",
   "#N/A": "notAvailable",
-  "#DIV/0!": "divisionByZero",
 };
 
 /** The host limits message length; keep messages short and whole. */

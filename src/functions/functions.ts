@@ -1,56 +1,55 @@
 /**
  * LSQ custom functions: the entry file read by the metadata generator. Each function's JSDoc
- * becomes its description and parameter help in the formula autocomplete; ids, parameter
- * names and order are frozen (test/metadata.test.ts) because shared workbooks depend on them.
+ * becomes its description and parameter help in the formula autocomplete; ids, parameter names
+ * and order are frozen (test/functions-host.test.ts) because shared workbooks depend on them.
  *
- * Optional arguments arrive as null when omitted. The last parameter is the host's invocation
- * object (calling-cell and argument addresses, recorded for the task pane).
+ * Argument convention (README "Function reference"): a function that asks about new points or
+ * readings takes them first; then the fit block y, x, weights, intercept, degree; then the
+ * function's own optional arguments; `weighting` is the last argument of every function that
+ * takes weights. Optional arguments arrive as null when omitted. The last parameter is the host's
+ * invocation object (calling-cell and argument addresses, recorded for the task pane).
+ *
+ * Every body runs inside L.invoke, so whatever the arguments hold, the host gets a result or one
+ * error value with a message (never a thrown exception).
  */
 /* global CustomFunctions */
 import * as L from "./lsq";
-import { recordCall } from "./registry";
-
-type Inv = CustomFunctions.Invocation;
-
-function note(fn: string, inv: Inv | undefined, args: unknown[]): void {
-  if (!inv || typeof inv.address !== "string") return;
-  recordCall({ fn, address: inv.address, parameterAddresses: inv.parameterAddresses ?? [], args, at: Date.now() });
-}
 
 /**
- * Least-squares coefficients: the intercept first, then one per x column (or per power of x). A coefficient that cannot be estimated shows #N/A and says which columns it depends on.
+ * Least-squares coefficients: the intercept first, then one per x column (or per power of x). A coefficient that cannot be estimated shows #N/A with the relation that makes it so.
  * @customfunction COEF
  * @helpurl https://localhost:3000/help.html#lsqcoef
  * @param y The observations: one column (or one row) of numbers.
  * @param x The predictors: as many rows as y, one column per predictor.
+ * @param [weights] Optional, one per row: relative weights, zero or positive (a zero-weight row takes no part in the fit but still gets a fitted value and residual), or the standard uncertainties of y when weighting is "uncertainty".
  * @param [intercept] TRUE (default) to include a constant term; FALSE to fit through zero.
- * @param [weights] Optional weights, one per row, zero or positive. A zero weight leaves the row out.
  * @param [degree] Polynomial degree in a single x column: 1 (default) to 20.
+ * @param [headers] TRUE to add a header row (and, for per-parameter results, a first column of term names); FALSE (default) for numbers only.
+ * @param [weighting] What the weights range holds: "relative" (default) or "uncertainty" (standard uncertainties of y: weights 1/u², no rescaling by the residual scatter, normal-distribution limits).
  * @requiresAddress
  * @requiresParameterAddresses
  * @returns One estimate per parameter, in a column.
  */
-export function coef(y: any[][], x: any[][], intercept: any, weights: any[][], degree: any, invocation: CustomFunctions.Invocation): any[][] {
-  note("COEF", invocation, [y, x, intercept, weights, degree]);
-  return L.guard(() => L.coef(y, x, intercept, weights, degree));
+export function coef(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, headers: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
+  return L.invoke("COEF", invocation, { y, x, weights, intercept, degree, headers, weighting }, (ctx) => L.coef({ y, x, weights, intercept, degree, headers, weighting }, ctx));
 }
 
 /**
- * Fitted values: the part of y the model explains (its projection onto the x columns), one per input row. Skipped rows show #N/A.
+ * Fitted values: the part of y the model explains (its projection onto the model's columns), one per input row. Skipped rows show #N/A.
  * @customfunction FITTED
  * @helpurl https://localhost:3000/help.html#lsqfitted
  * @param y The observations: one column (or one row) of numbers.
  * @param x The predictors: as many rows as y, one column per predictor.
+ * @param [weights] Optional, one per row: relative weights, zero or positive (a zero-weight row takes no part in the fit but still gets a fitted value and residual), or the standard uncertainties of y when weighting is "uncertainty".
  * @param [intercept] TRUE (default) to include a constant term; FALSE to fit through zero.
- * @param [weights] Optional weights, one per row, zero or positive. A zero weight leaves the row out.
  * @param [degree] Polynomial degree in a single x column: 1 (default) to 20.
+ * @param [weighting] What the weights range holds: "relative" (default) or "uncertainty" (standard uncertainties of y: weights 1/u², no rescaling by the residual scatter, normal-distribution limits).
  * @requiresAddress
  * @requiresParameterAddresses
  * @returns One fitted value per input row.
  */
-export function fitted(y: any[][], x: any[][], intercept: any, weights: any[][], degree: any, invocation: CustomFunctions.Invocation): any[][] {
-  note("FITTED", invocation, [y, x, intercept, weights, degree]);
-  return L.guard(() => L.fitted(y, x, intercept, weights, degree));
+export function fitted(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
+  return L.invoke("FITTED", invocation, { y, x, weights, intercept, degree, weighting }, (ctx) => L.fitted({ y, x, weights, intercept, degree, weighting }, ctx));
 }
 
 /**
@@ -59,16 +58,16 @@ export function fitted(y: any[][], x: any[][], intercept: any, weights: any[][],
  * @helpurl https://localhost:3000/help.html#lsqresid
  * @param y The observations: one column (or one row) of numbers.
  * @param x The predictors: as many rows as y, one column per predictor.
+ * @param [weights] Optional, one per row: relative weights, zero or positive (a zero-weight row takes no part in the fit but still gets a fitted value and residual), or the standard uncertainties of y when weighting is "uncertainty".
  * @param [intercept] TRUE (default) to include a constant term; FALSE to fit through zero.
- * @param [weights] Optional weights, one per row, zero or positive. A zero weight leaves the row out.
  * @param [degree] Polynomial degree in a single x column: 1 (default) to 20.
+ * @param [weighting] What the weights range holds: "relative" (default) or "uncertainty" (standard uncertainties of y: weights 1/u², no rescaling by the residual scatter, normal-distribution limits).
  * @requiresAddress
  * @requiresParameterAddresses
  * @returns One residual per input row.
  */
-export function resid(y: any[][], x: any[][], intercept: any, weights: any[][], degree: any, invocation: CustomFunctions.Invocation): any[][] {
-  note("RESID", invocation, [y, x, intercept, weights, degree]);
-  return L.guard(() => L.resid(y, x, intercept, weights, degree));
+export function resid(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
+  return L.invoke("RESID", invocation, { y, x, weights, intercept, degree, weighting }, (ctx) => L.resid({ y, x, weights, intercept, degree, weighting }, ctx));
 }
 
 /**
@@ -77,16 +76,17 @@ export function resid(y: any[][], x: any[][], intercept: any, weights: any[][], 
  * @helpurl https://localhost:3000/help.html#lsqcov
  * @param y The observations: one column (or one row) of numbers.
  * @param x The predictors: as many rows as y, one column per predictor.
+ * @param [weights] Optional, one per row: relative weights, zero or positive (a zero-weight row takes no part in the fit but still gets a fitted value and residual), or the standard uncertainties of y when weighting is "uncertainty".
  * @param [intercept] TRUE (default) to include a constant term; FALSE to fit through zero.
- * @param [weights] Optional weights, one per row, zero or positive. A zero weight leaves the row out.
  * @param [degree] Polynomial degree in a single x column: 1 (default) to 20.
+ * @param [headers] TRUE to add a header row (and, for per-parameter results, a first column of term names); FALSE (default) for numbers only.
+ * @param [weighting] What the weights range holds: "relative" (default) or "uncertainty" (standard uncertainties of y: weights 1/u², no rescaling by the residual scatter, normal-distribution limits).
  * @requiresAddress
  * @requiresParameterAddresses
  * @returns A square table, one row and column per parameter.
  */
-export function cov(y: any[][], x: any[][], intercept: any, weights: any[][], degree: any, invocation: CustomFunctions.Invocation): any[][] {
-  note("COV", invocation, [y, x, intercept, weights, degree]);
-  return L.guard(() => L.cov(y, x, intercept, weights, degree));
+export function cov(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, headers: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
+  return L.invoke("COV", invocation, { y, x, weights, intercept, degree, headers, weighting }, (ctx) => L.cov({ y, x, weights, intercept, degree, headers, weighting }, ctx));
 }
 
 /**
@@ -95,17 +95,18 @@ export function cov(y: any[][], x: any[][], intercept: any, weights: any[][], de
  * @helpurl https://localhost:3000/help.html#lsqparams
  * @param y The observations: one column (or one row) of numbers.
  * @param x The predictors: as many rows as y, one column per predictor.
+ * @param [weights] Optional, one per row: relative weights, zero or positive (a zero-weight row takes no part in the fit but still gets a fitted value and residual), or the standard uncertainties of y when weighting is "uncertainty".
  * @param [intercept] TRUE (default) to include a constant term; FALSE to fit through zero.
- * @param [weights] Optional weights, one per row, zero or positive. A zero weight leaves the row out.
  * @param [degree] Polynomial degree in a single x column: 1 (default) to 20.
  * @param [level] Confidence level for the limits, between 0 and 1 (default 0.95).
+ * @param [headers] TRUE to add a header row (and, for per-parameter results, a first column of term names); FALSE (default) for numbers only.
+ * @param [weighting] What the weights range holds: "relative" (default) or "uncertainty" (standard uncertainties of y: weights 1/u², no rescaling by the residual scatter, normal-distribution limits).
  * @requiresAddress
  * @requiresParameterAddresses
  * @returns One row per parameter, six columns.
  */
-export function params(y: any[][], x: any[][], intercept: any, weights: any[][], degree: any, level: any, invocation: CustomFunctions.Invocation): any[][] {
-  note("PARAMS", invocation, [y, x, intercept, weights, degree, level]);
-  return L.guard(() => L.params(y, x, intercept, weights, degree, level));
+export function params(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, level: any, headers: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
+  return L.invoke("PARAMS", invocation, { y, x, weights, intercept, degree, level, headers, weighting }, (ctx) => L.params({ y, x, weights, intercept, degree, level, headers, weighting }, ctx));
 }
 
 /**
@@ -114,37 +115,38 @@ export function params(y: any[][], x: any[][], intercept: any, weights: any[][],
  * @helpurl https://localhost:3000/help.html#lsqstats
  * @param y The observations: one column (or one row) of numbers.
  * @param x The predictors: as many rows as y, one column per predictor.
+ * @param [weights] Optional, one per row: relative weights, zero or positive (a zero-weight row takes no part in the fit but still gets a fitted value and residual), or the standard uncertainties of y when weighting is "uncertainty".
  * @param [intercept] TRUE (default) to include a constant term; FALSE to fit through zero.
- * @param [weights] Optional weights, one per row, zero or positive. A zero weight leaves the row out.
  * @param [degree] Polynomial degree in a single x column: 1 (default) to 20.
+ * @param [weighting] What the weights range holds: "relative" (default) or "uncertainty" (standard uncertainties of y: weights 1/u², no rescaling by the residual scatter, normal-distribution limits).
  * @requiresAddress
  * @requiresParameterAddresses
  * @returns 15 rows of label and value.
  */
-export function stats(y: any[][], x: any[][], intercept: any, weights: any[][], degree: any, invocation: CustomFunctions.Invocation): any[][] {
-  note("STATS", invocation, [y, x, intercept, weights, degree]);
-  return L.guard(() => L.stats(y, x, intercept, weights, degree));
+export function stats(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
+  return L.invoke("STATS", invocation, { y, x, weights, intercept, degree, weighting }, (ctx) => L.stats({ y, x, weights, intercept, degree, weighting }, ctx));
 }
 
 /**
  * Predictions at new x rows; optionally with a confidence interval for the mean response or a prediction interval for a new observation.
  * @customfunction PREDICT
  * @helpurl https://localhost:3000/help.html#lsqpredict
+ * @param newx The new rows to predict at: the same columns as x.
  * @param y The observations: one column (or one row) of numbers.
  * @param x The predictors: as many rows as y, one column per predictor.
- * @param newx The new rows to predict at: same columns as x.
+ * @param [weights] Optional, one per row: relative weights, zero or positive (a zero-weight row takes no part in the fit but still gets a fitted value and residual), or the standard uncertainties of y when weighting is "uncertainty".
  * @param [intercept] TRUE (default) to include a constant term; FALSE to fit through zero.
- * @param [weights] Optional weights, one per row, zero or positive. A zero weight leaves the row out.
  * @param [degree] Polynomial degree in a single x column: 1 (default) to 20.
  * @param [interval] "confidence" (mean response) or "prediction" (a new observation) to add lower and upper limits.
  * @param [level] Confidence level for the limits, between 0 and 1 (default 0.95).
+ * @param [headers] TRUE to add a header row (and, for per-parameter results, a first column of term names); FALSE (default) for numbers only.
+ * @param [weighting] What the weights range holds: "relative" (default) or "uncertainty" (standard uncertainties of y: weights 1/u², no rescaling by the residual scatter, normal-distribution limits).
  * @requiresAddress
  * @requiresParameterAddresses
  * @returns One prediction per new row; with an interval, three columns: prediction, lower, upper.
  */
-export function predict(y: any[][], x: any[][], newx: any[][], intercept: any, weights: any[][], degree: any, interval: any, level: any, invocation: CustomFunctions.Invocation): any[][] {
-  note("PREDICT", invocation, [y, x, newx, intercept, weights, degree, interval, level]);
-  return L.guard(() => L.predict(y, x, newx, intercept, weights, degree, interval, level));
+export function predict(newx: any[][], y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, interval: any, level: any, headers: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
+  return L.invoke("PREDICT", invocation, { newx, y, x, weights, intercept, degree, interval, level, headers, weighting }, (ctx) => L.predict({ newx, y, x, weights, intercept, degree, interval, level, headers, weighting }, ctx));
 }
 
 /**
@@ -153,32 +155,35 @@ export function predict(y: any[][], x: any[][], newx: any[][], intercept: any, w
  * @helpurl https://localhost:3000/help.html#lsqinfluence
  * @param y The observations: one column (or one row) of numbers.
  * @param x The predictors: as many rows as y, one column per predictor.
+ * @param [weights] Optional, one per row: relative weights, zero or positive (a zero-weight row takes no part in the fit but still gets a fitted value and residual), or the standard uncertainties of y when weighting is "uncertainty".
  * @param [intercept] TRUE (default) to include a constant term; FALSE to fit through zero.
- * @param [weights] Optional weights, one per row, zero or positive. A zero weight leaves the row out.
  * @param [degree] Polynomial degree in a single x column: 1 (default) to 20.
+ * @param [headers] TRUE to add a header row (and, for per-parameter results, a first column of term names); FALSE (default) for numbers only.
+ * @param [weighting] What the weights range holds: "relative" (default) or "uncertainty" (standard uncertainties of y: weights 1/u², no rescaling by the residual scatter, normal-distribution limits).
  * @requiresAddress
  * @requiresParameterAddresses
  * @returns One row per input row, four columns.
  */
-export function influence(y: any[][], x: any[][], intercept: any, weights: any[][], degree: any, invocation: CustomFunctions.Invocation): any[][] {
-  note("INFLUENCE", invocation, [y, x, intercept, weights, degree]);
-  return L.guard(() => L.influence(y, x, intercept, weights, degree));
+export function influence(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, headers: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
+  return L.invoke("INFLUENCE", invocation, { y, x, weights, intercept, degree, headers, weighting }, (ctx) => L.influence({ y, x, weights, intercept, degree, headers, weighting }, ctx));
 }
 
 /**
- * Plain-language check of the fit: dependent or nearly dependent columns, skipped rows, too few rows, exact fits, unusual rows. One line when nothing was found.
+ * Plain-language check of the fit: dependent or nearly dependent columns, skipped rows, too few rows, exact fits, curvature the model misses, unusual rows, and new points outside the data. One line when nothing was found.
  * @customfunction CHECK
  * @helpurl https://localhost:3000/help.html#lsqcheck
  * @param y The observations: one column (or one row) of numbers.
  * @param x The predictors: as many rows as y, one column per predictor.
+ * @param [weights] Optional, one per row: relative weights, zero or positive (a zero-weight row takes no part in the fit but still gets a fitted value and residual), or the standard uncertainties of y when weighting is "uncertainty".
  * @param [intercept] TRUE (default) to include a constant term; FALSE to fit through zero.
- * @param [weights] Optional weights, one per row, zero or positive. A zero weight leaves the row out.
  * @param [degree] Polynomial degree in a single x column: 1 (default) to 20.
+ * @param [weighting] What the weights range holds: "relative" (default) or "uncertainty" (standard uncertainties of y: weights 1/u², no rescaling by the residual scatter, normal-distribution limits).
+ * @param [newx] Optional: new x rows you predict at (PREDICT's newx), checked for extrapolation.
+ * @param [newy] Optional: readings you read back (INVERSE's newy), checked against the calibrated range.
  * @requiresAddress
  * @requiresParameterAddresses
  * @returns A column of findings.
  */
-export function check(y: any[][], x: any[][], intercept: any, weights: any[][], degree: any, invocation: CustomFunctions.Invocation): any[][] {
-  note("CHECK", invocation, [y, x, intercept, weights, degree]);
-  return L.guard(() => L.check(y, x, intercept, weights, degree));
+export function check(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, weighting: any, newx: any[][], newy: any[][], invocation: CustomFunctions.Invocation): any[][] {
+  return L.invoke("CHECK", invocation, { y, x, weights, intercept, degree, weighting, newx, newy }, (ctx) => L.check({ y, x, weights, intercept, degree, weighting, newx, newy }, ctx));
 }

@@ -32,11 +32,21 @@ export interface Block {
 
 const NO_KINDS = new Uint8Array(0);
 
+/**
+ * Most cells one range argument may hold (the documented input limit, README "Size limits"). Shape
+ * checks compare lengths with it before walking anything, so a hostile array with billions of
+ * empty slots is refused at once.
+ */
+export const MAX_RANGE_CELLS = 12_000_000;
+
 /** Check that v is a non-empty rectangular 2-D array; returns its size. */
 export function shapeOf(v: unknown, name: string): { rows: number; cols: number } {
   if (!Array.isArray(v)) throw new SheetError("#VALUE!", `${name} must be a range or an array`);
   const rows = v.length;
   if (rows === 0) throw new SheetError("#VALUE!", `${name} is empty`);
+  if (rows > MAX_RANGE_CELLS) throw new SheetError("#VALUE!", `${name} has ${rows} rows; the LSQ functions accept at most ${MAX_RANGE_CELLS} cells`);
+  const first: unknown = v[0];
+  if (Array.isArray(first) && rows * first.length > MAX_RANGE_CELLS) throw new SheetError("#VALUE!", `${name} has ${rows} × ${first.length} cells; the LSQ functions accept at most ${MAX_RANGE_CELLS}`);
   let cols = -1;
   for (let i = 0; i < rows; i++) {
     const r: unknown = v[i];
@@ -112,7 +122,7 @@ export function readNumber(v: unknown, name: string, dflt: number): number {
   const s = scalar(v);
   if (s === null || s === undefined || s === "") return dflt;
   if (typeof s === "number") {
-    if (!Number.isFinite(s)) throw new SheetError("#NUM!", `${name} must be a finite number`);
+    if (!Number.isFinite(s)) throw new SheetError("#VALUE!", `${name} must be a finite number`);
     return s;
   }
   if (typeof s === "string" && s.trim() !== "" && Number.isFinite(Number(s))) return Number(s);

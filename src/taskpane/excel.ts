@@ -11,7 +11,9 @@
  */
 /* global Excel, Office */
 import { lookup, type FormulaRecord } from "../functions/registry";
-import { defaultLabels, getModel, toSheetError } from "../functions/model";
+import { defaultLabels, getModel, toSheetError, type FitArgs, type Model } from "../functions/model";
+import { argumentIndex } from "../functions/signatures";
+import { SheetError } from "../functions/cellerror";
 import { el, outputRegion, renderFit } from "./render";
 import { EXAMPLES } from "./examples";
 
@@ -27,8 +29,34 @@ function firstRow(local: string): number {
   return m ? Number(m[1]) : 1;
 }
 
+/** Excel's error strings in range.values, read back as the error values the functions receive. */
+const ERROR_TEXT = /^#(N\/A|VALUE!|DIV\/0!|REF!|NAME\?|NUM!|NULL!|SPILL!|CALC!|GETTING_DATA|FIELD!|BUSY!|CONNECT!|BLOCKED!|UNKNOWN!)$/;
+
+/**
+ * The fit a recorded formula computed: the record's weak reference while the fit cache still holds
+ * it; otherwise the arguments again (ranges too large for the record are read by address), which
+ * the fit cache then recognises by content.
+ */
+async function modelOf(rec: FormulaRecord): Promise<Model> {
+  const alive = rec.ref?.deref() as Model | undefined;
+  if (alive && "fit" in alive) return alive;
+  const args: Record<string, unknown> = { ...rec.args };
+  for (const name of rec.dropped) {
+    const addr = rec.parameterAddresses[argumentIndex(rec.fn, name)];
+    const parts = addr ? splitAddress(addr) : null;
+    if (!parts) throw new SheetError("#N/A", `the ${name} argument is computed rather than a range, and too large to keep; recalculate the formula and select it again`);
+    args[name] = await Excel.run(async (ctx) => {
+      const range = ctx.workbook.worksheets.getItem(parts.sheet).getRange(parts.local);
+      range.load("values");
+      await ctx.sync();
+      return (range.values as unknown[][]).map((row) => row.map((c) => (typeof c === "string" && ERROR_TEXT.test(c) ? { code: c } : c)));
+    });
+  }
+  return getModel(args as unknown as FitArgs);
+}
+
 async function headerLabels(rec: FormulaRecord): Promise<string[] | null> {
-  const xAddr = rec.parameterAddresses[1];
+  const xAddr = rec.parameterAddresses[argumentIndex(rec.fn, "x")];
   const parts = xAddr ? splitAddress(xAddr) : null;
   if (!parts) return null;
   try {
@@ -81,18 +109,14 @@ export function startExcel(app: HTMLElement): void {
       out.replaceChildren();
       return;
     }
-    const [y, x, a2, a3, a4, a5] = rec.args;
-    const isPredict = rec.fn === "PREDICT";
-    const intercept = isPredict ? a3 : a2;
-    const weights = isPredict ? a4 : a3;
-    const degree = isPredict ? a5 : a4;
     try {
-      const model = getModel(y, x, intercept, weights, degree);
+      const model = await modelOf(rec);
       const header = await headerLabels(rec);
       // Header cells above x name the columns; without a header row, "column 3 of x".
       const names = header ?? Array.from({ length: model.fit.shape.k }, (_, j) => (model.fit.shape.degree >= 2 ? "x" : `column ${j + 1} of x`));
       const labels = defaultLabels(model.fit.spec.intercept, model.fit.shape.k, model.fit.shape.degree, names);
-      const yAddr = rec.parameterAddresses[0] ? splitAddress(rec.parameterAddresses[0]) : null;
+      const yAt = rec.parameterAddresses[argumentIndex(rec.fn, "y")];
+      const yAddr = yAt ? splitAddress(yAt) : null;
       const row0 = yAddr ? firstRow(yAddr.local) : 1;
       status.textContent = `LSQ.${rec.fn} in ${rec.address}`;
       renderFit(out, model, labels, { rowNumber: (i) => row0 + i, xNames: names, title: "Row numbers are worksheet rows." });
@@ -137,7 +161,7 @@ async function insertExample(): Promise<void> {
     put("LSQ.FITTED", "R2", `=LSQ.FITTED(${Y},${X})`, "R", 2);
     put("LSQ.RESID", "S2", `=LSQ.RESID(${Y},${X})`, "S", 2);
     put("LSQ.INFLUENCE", "U2", `=LSQ.INFLUENCE(${Y},${X})`, "U", 2);
-    put("LSQ.PREDICT", "F14", `=LSQ.PREDICT(${Y},${X},B${last - 1}:D${last},TRUE,,,"prediction")`, "F", 14);
+    put("LSQ.PREDICT", "F14", `=LSQ.PREDICT(B${last - 1}:D${last},${Y},${X},,,,"prediction")`, "F", 14);
     put("LSQ.CHECK", "F19", `=LSQ.CHECK(${Y},${X})`, "F", 19);
     sh.getRange("A1:Z1").format.font.bold = true;
     sh.activate();

@@ -100,7 +100,7 @@ export function startPreview(app: HTMLElement): void {
     const w = wcol > 0 ? t.rows.map((r) => [r[wcol] ?? null]) : null;
     const deg = Number(degree.value);
     try {
-      const model = getModel(y, x, intercept.checked, w, deg);
+      const model = getModel({ y, x, weights: w, intercept: intercept.checked, degree: deg });
       const xNames = xcols.map((j) => t.header[j] || `column ${j + 1}`);
       const labels = defaultLabels(intercept.checked, xcols.length, deg, xNames);
       renderFit(out, model, labels, { rowNumber: (i) => i + 1, xNames, title: `y = ${t.header[0] || "column 1"}; rows are numbered from the first data row.` });

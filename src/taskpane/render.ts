@@ -105,7 +105,7 @@ export function renderStats(model: Model): HTMLElement {
   const box = el("section", undefined, "stats");
   box.appendChild(el("h2", "Fit summary"));
   const s = model.fit.statistics();
-  const labels = statsLabels(s.centred);
+  const labels = statsLabels(s.centered, !!model.fit.spec.weights);
   const values: Quantity[] = [s.observationsUsed, s.observationsSkipped, s.parameters, s.rank, s.residualDf, s.rss, s.sigma, s.rSquared, s.adjRSquared, s.fStatistic, s.fPValue, s.conditionNumber, s.logLikelihood, s.aic, s.bic];
   const dl = el("dl");
   values.forEach((v, i) => {

@@ -1,14 +1,14 @@
 /** Fit a NIST StRD dataset with the engine, the way its model is stated in the file. */
-import { LeastSquaresFit } from "../../src/core/fit";
+import { LeastSquaresFit, type FitOptions } from "../../src/core/fit";
 import type { NistDataset } from "./nist";
 
-export function fitNist(d: NistDataset): LeastSquaresFit {
+export function fitNist(d: NistDataset, options: FitOptions = {}): LeastSquaresFit {
   const m = d.rows.length;
   const k = d.predictors.columns ?? 1;
   const y = Float64Array.from(d.rows.map((r) => r[0]!));
   const x = new Float64Array(m * k);
   for (let j = 0; j < k; j++) for (let i = 0; i < m; i++) x[j * m + i] = d.rows[i]![j + 1]!;
-  return new LeastSquaresFit({ y, x, rows: m, cols: k, intercept: d.intercept, degree: d.predictors.polynomialDegree ?? 1 });
+  return new LeastSquaresFit({ y, x, rows: m, cols: k, intercept: d.intercept, degree: d.predictors.polynomialDegree ?? 1 }, options);
 }
 
 export interface NistDigits {
