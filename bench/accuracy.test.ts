@@ -37,7 +37,6 @@ function mlMatrixDigits(d: NistDataset): number {
 
 it("prints the accuracy table", () => {
   const sets = loadNist();
-  if (!sets) return;
   const head = ["dataset", "coef", "std err", "resid SD", "R²", "| unrefined coef", "ml-matrix coef"];
   const lines = [head.join("\t")];
   for (const d of sets) {

@@ -97,9 +97,10 @@ describe("shared factorization", () => {
     c.insert(1, { numbers: [], bytes: [], flags: "" }, "a");
     c.insert(2, { numbers: [], bytes: [], flags: "" }, "b");
     expect(c.size).toBe(2);
-    sizes.set("a", 1900); // "a" computed a large by-product
+    expect(c.find(1, () => true)).toBe("a"); // "a" is used again …
+    sizes.set("a", 1900); // … and computes a large by-product
     c.settle();
-    expect(c.size).toBe(1); // the least recently used ("a") went
-    expect(c.find(2, () => true)).toBe("b");
+    expect(c.size).toBe(1); // the least recently used ("b") went
+    expect(c.find(1, () => true)).toBe("a");
   });
 });

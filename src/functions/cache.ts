@@ -5,8 +5,8 @@
  *
  * Each entry's size is measured, not estimated: the stored key arrays plus what the value reports
  * it keeps (`bytesOf`, e.g. a fit's own arrays, its factor and every by-product computed so far).
- * By-products grow a fit after it was stored (the covariance, the leverage…), so an entry is
- * measured again each time it is used. Least recently used entries are evicted while the total is
+ * By-products grow a fit after it was stored (the covariance, the leverage…), so the entry a call
+ * used is measured again after the call. Least recently used entries are evicted while the total is
  * above the byte budget; there is no entry count, so many small fits stay cached together.
  */
 
@@ -71,17 +71,17 @@ export class ContentCache<V> {
   }
 
   /**
-   * Measure every entry again (values grow as by-products are computed) and evict the least
-   * recently used ones while the total is above the budget. The most recent entry always stays,
-   * even alone above the budget: it is the fit the caller is using.
+   * Measure the most recently used entry again (a call computes by-products only on the fit it
+   * used, which is then the most recent) and evict the least recently used entries while the total
+   * is above the budget. The most recent entry always stays, even alone above the budget: it is the
+   * fit the caller is using.
    */
   settle(): void {
-    let total = 0;
-    for (const e of this.entries) {
-      e.size = keySize(e.key) + this.bytesOf(e.value);
-      total += e.size;
-    }
-    this.total = total;
+    const e = this.entries[0];
+    if (!e) return;
+    const size = keySize(e.key) + this.bytesOf(e.value);
+    this.total += size - e.size;
+    e.size = size;
     this.evict();
   }
 

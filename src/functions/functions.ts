@@ -14,6 +14,7 @@
  */
 /* global CustomFunctions */
 import * as L from "./lsq";
+import * as C from "./calibrate";
 
 /**
  * Least-squares coefficients: the intercept first, then one per x column (or per power of x). A coefficient that cannot be estimated shows #N/A with the relation that makes it so.
@@ -186,4 +187,68 @@ export function influence(y: any[][], x: any[][], weights: any[][], intercept: a
  */
 export function check(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, weighting: any, newx: any[][], newy: any[][], invocation: CustomFunctions.Invocation): any[][] {
   return L.invoke("CHECK", invocation, { y, x, weights, intercept, degree, weighting, newx, newy }, (ctx) => L.check({ y, x, weights, intercept, degree, weighting, newx, newy }, ctx));
+}
+
+/**
+ * Reads unknown samples back from a calibration curve: for each reading, the estimated x, its standard uncertainty, and lower and upper limits (the prediction band inverted).
+ * @customfunction INVERSE
+ * @helpurl https://localhost:3000/help.html#lsqinverse
+ * @param newy The readings of the unknown samples (each the mean of `replicates` readings).
+ * @param y The measured responses of the standards: one column (or one row) of numbers.
+ * @param x The known values of the standards: as many rows as y, one column.
+ * @param [weights] Optional, one per row: relative weights, zero or positive, or the standard uncertainties of y when weighting is "uncertainty".
+ * @param [intercept] TRUE (default) to include a constant term; FALSE to fit through zero.
+ * @param [degree] Polynomial degree of the calibration curve: 1 (default, a straight line) to 20.
+ * @param [level] Confidence level for the limits, between 0 and 1 (default 0.95).
+ * @param [replicates] How many readings were averaged into each value of newy (default 1).
+ * @param [ureading] With weighting "uncertainty": the standard uncertainty of one reading.
+ * @param [headers] TRUE to add a header row; FALSE (default) for numbers only.
+ * @param [weighting] What the weights range holds: "relative" (default) or "uncertainty" (standard uncertainties of y: weights 1/u², no rescaling by the residual scatter, normal-distribution limits).
+ * @requiresAddress
+ * @requiresParameterAddresses
+ * @returns One row per reading, four columns: x, standard uncertainty, lower limit, upper limit.
+ */
+export function inverse(newy: any[][], y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, level: any, replicates: any, ureading: any, headers: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
+  return L.invoke("INVERSE", invocation, { newy, y, x, weights, intercept, degree, level, replicates, ureading, headers, weighting }, (ctx) => C.inverseFn({ newy, y, x, weights, intercept, degree, level, replicates, ureading, headers, weighting }, ctx));
+}
+
+/**
+ * Decision limit, limit of detection and limit of quantitation of a straight-line calibration (DIN 32645 / ISO 11843-2 calibration-line method, or the ICH Q2 convention), as a labelled table.
+ * @customfunction LIMITS
+ * @helpurl https://localhost:3000/help.html#lsqlimits
+ * @param y The measured responses of the standards: one column (or one row) of numbers.
+ * @param x The known values of the standards: as many rows as y, one column.
+ * @param [weights] Optional, one per row: relative weights, zero or positive, or the standard uncertainties of y when weighting is "uncertainty".
+ * @param [intercept] TRUE (default) to include a constant term; FALSE to fit through zero.
+ * @param [degree] Polynomial degree of the calibration curve: 1 (default, a straight line) to 20.
+ * @param [method] "calibration" (default: DIN 32645 / ISO 11843-2) or "ich" (3.3·s/slope and 10·s/slope).
+ * @param [alpha] False positive rate α, between 0 and 0.5 (default 0.01).
+ * @param [beta] False negative rate β, between 0 and 0.5 (default: alpha).
+ * @param [k] Quantitation factor k, the inverse of the relative uncertainty required at the quantitation limit (default 3).
+ * @param [samples] Measurements made on each sample (default 1).
+ * @param [weighting] What the weights range holds: "relative" (default) or "uncertainty" (standard uncertainties of y: weights 1/u², no rescaling by the residual scatter, normal-distribution limits).
+ * @requiresAddress
+ * @requiresParameterAddresses
+ * @returns 9 rows of label and value.
+ */
+export function limits(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, method: any, alpha: any, beta: any, k: any, samples: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
+  return L.invoke("LIMITS", invocation, { y, x, weights, intercept, degree, method, alpha, beta, k, samples, weighting }, (ctx) => C.limitsFn({ y, x, weights, intercept, degree, method, alpha, beta, k, samples, weighting }, ctx));
+}
+
+/**
+ * Tests of the model itself, as a labelled table: lack of fit against pure error (when x values repeat), χ² (with known uncertainties) and a test for curvature the model misses.
+ * @customfunction GOF
+ * @helpurl https://localhost:3000/help.html#lsqgof
+ * @param y The measured responses of the standards: one column (or one row) of numbers.
+ * @param x The known values of the standards: as many rows as y, one column.
+ * @param [weights] Optional, one per row: relative weights, zero or positive, or the standard uncertainties of y when weighting is "uncertainty".
+ * @param [intercept] TRUE (default) to include a constant term; FALSE to fit through zero.
+ * @param [degree] Polynomial degree of the calibration curve: 1 (default, a straight line) to 20.
+ * @param [weighting] What the weights range holds: "relative" (default) or "uncertainty" (standard uncertainties of y: weights 1/u², no rescaling by the residual scatter, normal-distribution limits).
+ * @requiresAddress
+ * @requiresParameterAddresses
+ * @returns 13 rows of label and value.
+ */
+export function gof(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
+  return L.invoke("GOF", invocation, { y, x, weights, intercept, degree, weighting }, (ctx) => C.gofFn({ y, x, weights, intercept, degree, weighting }, ctx));
 }

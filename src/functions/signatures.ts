@@ -15,6 +15,9 @@ export const SIGNATURES: Readonly<Record<string, readonly string[]>> = {
   PREDICT: ["newx", ...FIT, "interval", "level", "headers", "weighting"],
   INFLUENCE: [...FIT, "headers", "weighting"],
   CHECK: [...FIT, "weighting", "newx", "newy"],
+  INVERSE: ["newy", ...FIT, "level", "replicates", "ureading", "headers", "weighting"],
+  LIMITS: [...FIT, "method", "alpha", "beta", "k", "samples", "weighting"],
+  GOF: [...FIT, "weighting"],
 };
 
 /** Position of a named argument of function `fn`, or −1. */

@@ -1,0 +1,110 @@
+/**
+ * The calibration functions: INVERSE (reading unknown samples back from the curve), LIMITS
+ * (decision, detection and quantitation limits) and GOF (tests of the model itself). They take the
+ * same fit block as the other functions and share the fit cache (README "Calibration").
+ */
+import { detectionLimits, inverse, type LimitsOptions } from "../core/calibration";
+import type { Quantity } from "../core/errors";
+import { cellError, SheetError } from "./cellerror";
+import { omitted, requireEnoughRows, type FitArgs } from "./model";
+import { modelFor, q, readHeaders, readLevel, readVector, type CallContext, type Cell, type Grid } from "./lsq";
+import { readNumber, readWord } from "./values";
+
+/** Column headings of INVERSE (with `headers`). */
+export const INVERSE_HEADINGS = ["x", "standard uncertainty", "lower limit", "upper limit"];
+
+/** A positive whole number argument (replicates, samples). */
+function readCount(v: unknown, name: string, dflt: number): number {
+  const c = readNumber(v, name, dflt);
+  if (!Number.isInteger(c) || c < 1 || c > 1e6) throw new SheetError("#VALUE!", `${name} must be a whole number of at least 1 (it is ${c})`);
+  return c;
+}
+
+export function inverseFn(a: FitArgs & { newy: unknown; level?: unknown; replicates?: unknown; ureading?: unknown; headers?: unknown }, ctx?: CallContext): Grid {
+  const level = readLevel(a.level);
+  const replicates = readCount(a.replicates, "replicates", 1);
+  const headers = readHeaders(a.headers);
+  let ureading: number | null = null;
+  if (!omitted(a.ureading)) {
+    ureading = readNumber(a.ureading, "ureading", NaN);
+    if (!(ureading > 0)) throw new SheetError("#VALUE!", `ureading, the standard uncertainty of one reading, must be positive (it is ${ureading})`);
+  }
+  const newy = readVector(a.newy, "newy");
+  const model = modelFor(a, ctx);
+  requireEnoughRows(model);
+  if (model.fit.shape.k !== 1) throw new SheetError("#VALUE!", `INVERSE reads a reading back to one x, so x must be a single column (it has ${model.fit.shape.k})`);
+  const rows = inverse(model.fit, newy, { level, replicates, readingUncertainty: ureading }).map((r): Cell[] => [q(r.x), q(r.u), q(r.lower), q(r.upper)]);
+  return headers ? [INVERSE_HEADINGS.slice(), ...rows] : rows;
+}
+
+/** Labels of the LIMITS rows, in their fixed order. */
+export const LIMITS_LABELS = [
+  "decision limit (critical value, x units)",
+  "limit of detection (x units)",
+  "limit of quantitation (x units)",
+  "critical response (y units)",
+  "method",
+  "α (false positive rate)",
+  "β (false negative rate)",
+  "k (quantitation factor)",
+  "measurements per sample",
+];
+
+export function limitsFn(a: FitArgs & { method?: unknown; alpha?: unknown; beta?: unknown; k?: unknown; samples?: unknown }, ctx?: CallContext): Grid {
+  const method = (readWord(a.method, "method", ["calibration", "ich"]) ?? "calibration") as LimitsOptions["method"];
+  const alpha = readNumber(a.alpha, "alpha", 0.01);
+  if (!(alpha > 0 && alpha < 0.5)) throw new SheetError("#VALUE!", `alpha must be between 0 and 0.5, e.g. 0.01 (it is ${alpha})`);
+  const beta = readNumber(a.beta, "beta", alpha);
+  if (!(beta > 0 && beta < 0.5)) throw new SheetError("#VALUE!", `beta must be between 0 and 0.5, e.g. 0.01 (it is ${beta})`);
+  const k = readNumber(a.k, "k", 3);
+  if (!(k > 0 && Number.isFinite(k))) throw new SheetError("#VALUE!", `k, the quantitation factor, must be positive, e.g. 3 (it is ${k})`);
+  const samples = readCount(a.samples, "samples", 1);
+  const model = modelFor(a, ctx);
+  requireEnoughRows(model);
+  const lim = detectionLimits(model.fit, { method, alpha, beta, k, samples });
+  const ich = method === "ich";
+  const notUsed = cellError("#N/A", "not used by the ICH Q2 convention");
+  const values: Cell[] = [
+    q(lim.decision),
+    q(lim.detection),
+    q(lim.quantitation),
+    q(lim.criticalResponse),
+    ich ? "ICH Q2: 3.3·s/slope and 10·s/slope" : "calibration line (DIN 32645, ISO 11843-2)",
+    ich ? notUsed : alpha,
+    ich ? notUsed : beta,
+    ich ? 10 : k,
+    ich ? notUsed : samples,
+  ];
+  return LIMITS_LABELS.map((l, i) => [l, values[i]!]);
+}
+
+/** Labels of the GOF rows, in their fixed order. */
+export const GOF_LABELS = [
+  "lack-of-fit sum of squares",
+  "lack-of-fit degrees of freedom",
+  "pure-error sum of squares",
+  "pure-error degrees of freedom",
+  "lack-of-fit F",
+  "p-value of lack-of-fit F",
+  "χ² (known uncertainties)",
+  "χ² degrees of freedom",
+  "p-value of χ²",
+  "reduced χ²",
+  "term added to test curvature",
+  "t of the added term",
+  "p-value of the added term",
+];
+
+export function gofFn(a: FitArgs, ctx?: CallContext): Grid {
+  const model = modelFor(a, ctx);
+  requireEnoughRows(model);
+  const fit = model.fit;
+  const lof = fit.lackOfFit();
+  const chi = fit.chiSquare();
+  const at = fit.addedTerm();
+  const values: (Quantity | string)[] = [lof.sumSquares, lof.df, lof.pureErrorSumSquares, lof.pureErrorDf, lof.F, lof.p, chi.chi2, chi.df, chi.p, chi.reduced, at.term, at.t, at.p];
+  return GOF_LABELS.map((l, i) => {
+    const v = values[i]!;
+    return [l, typeof v === "string" ? v : q(v)];
+  });
+}
