@@ -14,7 +14,7 @@ const results = [];
 for (const [rows, cols] of sizes) {
   const out = join(tmpdir(), `colspace-bench-${rows}x${cols}.json`);
   rmSync(out, { force: true });
-  const r = spawnSync(process.execPath, [join(root, "node_modules/vitest/vitest.mjs"), "run", "--config", "vitest.bench.config.ts", "--silent"], {
+  const r = spawnSync(process.execPath, [join(root, "node_modules/vitest/vitest.mjs"), "run", "--config", "vitest.bench.config.mts", "--silent"], {
     cwd: root,
     env: { ...process.env, BENCH_ROWS: String(rows), BENCH_COLS: String(cols), BENCH_OUT: out, NODE_OPTIONS: "--max-old-space-size=16384" },
     encoding: "utf8",
