@@ -12,7 +12,10 @@ Every problem states its formula here, written from the published definitions (s
 - inverse prediction: x̂ with f(x̂) = ȳ₀, u(x̂)² = (s_r²/k + zᵀCz)/f′(x̂)²; limits: the roots of
   (f(x) − ȳ₀)² = q²(s_r²/k + zᵀCz) around x̂ (q: t(n − p) or normal quantile);
 - DIN 32645 calibration-line limits; ICH Q2 3.3·s/b and 10·s/b;
-- lack of fit against pure error; χ²; the t of an added power term.
+- lack of fit against pure error; χ²; the t of an added power term;
+- generalized distance regression (LINEXY): the slope by minimizing S(b) directly (not York's
+  iteration) and the uncertainties from the full Jacobian in (a, b, x*); Deming's closed-form slope
+  and the orthogonal line from an SVD as independent special cases.
 
 Published data sets reproduced here (values typed from the publications):
 - Massart et al., Handbook of Chemometrics and Qualimetrics (1997), Part A, ch. 8 worked example;
@@ -242,6 +245,130 @@ def pontius():
     return x, y
 
 
+def gdr_line(x, y, ux, uy, r=None, level=0.95):
+    """Generalized distance regression in mpmath, independently of York's iteration: b minimizes
+    S(b) = Σ W_i(b)(y_i − a(b) − b x_i)² with a(b) the optimal intercept (found by findroot on
+    dS/db = 0 from the ordinary line), and the uncertainties are (JᵀJ)⁻¹ of the full problem in
+    (a, b, x*_1 … x*_n) with residuals ((x − x*)/u_x, (y − a − b x*)/u_y), correlated errors
+    whitened by their 2 × 2 covariance."""
+    n = len(x)
+    r = r or [0] * n
+    X = [M(v) for v in x]
+    Y = [M(v) for v in y]
+    vx = [M(v) ** 2 for v in ux]
+    vy = [M(v) ** 2 for v in uy]
+    cxy = [M(r[i]) * M(ux[i]) * M(uy[i]) for i in range(n)]
+
+    def a_of(b):
+        W = [1 / (vy[i] + b * b * vx[i] - 2 * b * cxy[i]) for i in range(n)]
+        return mp.fsum(W[i] * (Y[i] - b * X[i]) for i in range(n)) / mp.fsum(W), W
+
+    def S(b):
+        a, W = a_of(b)
+        return mp.fsum(W[i] * (Y[i] - a - b * X[i]) ** 2 for i in range(n))
+
+    xb = mp.fsum(X) / n
+    yb = mp.fsum(Y) / n
+    b0 = mp.fsum((X[i] - xb) * (Y[i] - yb) for i in range(n)) / mp.fsum((X[i] - xb) ** 2 for i in range(n))
+    b = mp.findroot(lambda t: mp.diff(S, t), b0)
+    a, W = a_of(b)
+    Smin = S(b)
+    # full Jacobian: parameters (a, b, x*_i); per row residual vector L_i⁻¹ [x_i − x*_i, y_i − a − b x*_i]
+    # where Σ_i = L_i L_iᵀ is the covariance of the row's errors; x*_i minimizes the row's distance.
+    P = 2 + n
+    J = mp.matrix(2 * n, P)
+    for i in range(n):
+        Si = mp.matrix([[vx[i], cxy[i]], [cxy[i], vy[i]]])
+        Wi = Si ** -1
+        # x*_i = argmin [dx, dy] Wi [dx, dy]ᵀ with dx = x − x*, dy = y − a − b x*
+        A_ = mp.matrix([[1], [b]])
+        rhs = mp.matrix([[X[i]], [Y[i] - a]])
+        xs = ((A_.T * Wi * rhs)[0] / (A_.T * Wi * A_)[0])
+        # whitening: Wi = Rᵀ R (Cholesky of the inverse)
+        Lc = mp.cholesky(Wi)  # Wi = Lc Lcᵀ
+        R = Lc.T
+        # residual e = R [x − x*, y − a − b x*]; derivatives
+        d = [[0, 0, -1], [-1, -xs, -b]]  # rows: dx, dy; columns: a, b, x*
+        for rr in range(2):
+            for cc, col in enumerate([0, 1, 2 + i]):
+                J[2 * i + rr, col] += R[rr, 0] * d[0][cc] + R[rr, 1] * d[1][cc]
+    V = (J.T * J) ** -1
+    ua, ub, cov = mp.sqrt(V[0, 0]), mp.sqrt(V[1, 1]), V[0, 1]
+    q = normal_quantile(M(1) / 2 + M(level) / 2)
+    out = dict(x=[float(v) for v in x], y=[float(v) for v in y], ux=[float(v) for v in ux], uy=[float(v) for v in uy], r=[float(v) for v in r], level=level,
+               intercept=float(a), slope=float(b), uIntercept=float(ua), uSlope=float(ub), covariance=float(cov), chi2=float(Smin), df=n - 2,
+               p=float(chi2_upper(Smin, n - 2)) if n > 2 else None,
+               lowerIntercept=float(a - q * ua), upperIntercept=float(a + q * ua), lowerSlope=float(b - q * ub), upperSlope=float(b + q * ub))
+    return out
+
+
+def deming(x, y, delta):
+    """Deming's closed-form slope for a constant ratio δ = u_y²/u_x²."""
+    n = len(x)
+    X = [M(v) for v in x]
+    Y = [M(v) for v in y]
+    xb = mp.fsum(X) / n
+    yb = mp.fsum(Y) / n
+    sxx = mp.fsum((v - xb) ** 2 for v in X)
+    syy = mp.fsum((v - yb) ** 2 for v in Y)
+    sxy = mp.fsum((X[i] - xb) * (Y[i] - yb) for i in range(n))
+    d = M(delta)
+    b = (syy - d * sxx + mp.sqrt((syy - d * sxx) ** 2 + 4 * d * sxy ** 2)) / (2 * sxy)
+    return float(yb - b * xb), float(b)
+
+
+def orthogonal(x, y):
+    """Total least squares: the line through the centroid along the first right singular vector."""
+    n = len(x)
+    X = [M(v) for v in x]
+    Y = [M(v) for v in y]
+    xb = mp.fsum(X) / n
+    yb = mp.fsum(Y) / n
+    A = mp.matrix([[X[i] - xb, Y[i] - yb] for i in range(n)])
+    U, Sv, Vt = mp.svd_r(A)
+    k = 0 if Sv[0] >= Sv[1] else 1
+    b = Vt[k, 1] / Vt[k, 0]
+    return float(yb - b * xb), float(b)
+
+
+def linexy_cases():
+    out = []
+    iso = gdr_line([1.2, 1.9, 2.9, 4.0, 4.7, 5.9], [3.4, 4.4, 7.2, 8.5, 10.8, 13.5], [0.2] * 6, [0.2, 0.2, 0.2, 0.4, 0.4, 0.4])
+    iso.update(name="iso28037-clause7", source="ISO/TS 28037:2010 clause 7 example")
+    out.append(iso)
+    # invented method comparison: two analysers measuring the same samples
+    n = 12
+    truth = [2 + 3 * t for t in range(n)]
+    xs = [float(f"{v + 0.3 * rng.standard_normal():.3f}") for v in truth]
+    ys = [float(f"{0.4 + 1.05 * v + 0.5 * rng.standard_normal():.3f}") for v in truth]
+    dem = gdr_line(xs, ys, [0.3] * n, [0.5] * n)
+    dem.update(name="invented-deming", source="invented (seeded); Deming slope, δ = (0.5/0.3)²")
+    dem["deming"] = deming(xs, ys, (M(0.5) / M(0.3)) ** 2)
+    out.append(dem)
+    orth = gdr_line(xs, ys, [0.4] * n, [0.4] * n)
+    orth.update(name="invented-orthogonal", source="invented (seeded); orthogonal line from the SVD of the centred data")
+    orth["orthogonal"] = orthogonal(xs, ys)
+    out.append(orth)
+    # correlated errors, and uncertainties that differ wildly from row to row
+    m = 9
+    xs = [float(f"{0.5 * t + 0.05 * rng.standard_normal():.4f}") for t in range(1, m + 1)]
+    ys = [float(f"{1.5 - 0.8 * v + 0.1 * rng.standard_normal():.4f}") for v in xs]
+    uxs = [float(f"{v:.4g}") for v in 10 ** rng.uniform(-3, -0.5, m)]
+    uys = [float(f"{v:.4g}") for v in 10 ** rng.uniform(-3, -0.5, m)]
+    rs = [float(f"{v:.3f}") for v in rng.uniform(-0.8, 0.8, m)]
+    c = gdr_line(xs, ys, uxs, uys, rs)
+    c.update(name="invented-correlated-wild", source="invented (seeded)")
+    out.append(c)
+    # three rows and two rows
+    c3 = gdr_line([1.0, 2.0, 3.5], [2.1, 3.9, 7.2], [0.1, 0.2, 0.1], [0.3, 0.2, 0.4])
+    c3.update(name="invented-three-rows", source="invented")
+    out.append(c3)
+    c2 = gdr_line([1.0, 3.0], [2.0, 5.0], [0.1, 0.2], [0.3, 0.1])
+    c2.update(name="invented-two-rows", source="invented")
+    out.append(c2)
+    return out
+
+
 def main():
     cases = []
     mx = [0, 10, 20, 30, 40, 50]
@@ -274,7 +401,7 @@ def main():
     us = [0.02 + 0.01 * v for v in xs]
     ys = [float(f"{0.1 + 0.9 * v + 0.05 * v * v - 0.003 * v ** 3 + u * rng.standard_normal():.4f}") for v, u in zip(xs, us)]
     cases.append(case("invented-known-cubic", "invented (seeded)", xs, ys, w=[1 / M(u) ** 2 for u in us], degree=3, known=True, readings=[(4.0, 1, 0.95, 0.05), (7.5, 2, 0.9, 0.04)]))
-    out = dict(generator="scripts/gen-calibration.py", seed=SEED, python=sys.version.split()[0], numpy=np.__version__, mpmath=mp.__version__, precisionDigits=mp.mp.dps, cases=cases)
+    out = dict(generator="scripts/gen-calibration.py", seed=SEED, python=sys.version.split()[0], numpy=np.__version__, mpmath=mp.__version__, precisionDigits=mp.mp.dps, cases=cases, linexy=linexy_cases())
     here = os.path.dirname(os.path.abspath(__file__))
     with open(os.path.join(here, "..", "test", "fixtures", "calibration.json"), "w") as f:
         json.dump(out, f, indent=1)

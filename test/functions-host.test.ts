@@ -26,6 +26,7 @@ const FROZEN: Record<string, string[]> = {
   INVERSE: ["newy", ...FIT, "level?", "replicates?", "ureading?", "headers?", "weighting?"],
   LIMITS: [...FIT, "method?", "alpha?", "beta?", "k?", "samples?", "weighting?"],
   GOF: [...FIT, "weighting?"],
+  LINEXY: ["y", "x", "uy", "ux", "correlation?", "level?"],
 };
 
 describe("metadata (dist/functions.json)", () => {

@@ -61,7 +61,7 @@ function optionalOf(hostile: boolean, valid: readonly unknown[]): fc.Arbitrary<u
   );
 }
 
-const IDS = ["COEF", "FITTED", "RESID", "COV", "PARAMS", "STATS", "PREDICT", "INFLUENCE", "CHECK", "INVERSE", "LIMITS", "GOF"] as const;
+const IDS = ["COEF", "FITTED", "RESID", "COV", "PARAMS", "STATS", "PREDICT", "INFLUENCE", "CHECK", "INVERSE", "LIMITS", "GOF", "LINEXY"] as const;
 
 const call = fc
   .tuple(
@@ -92,11 +92,14 @@ const call = fc
       weighting: optionalOf(hostile, ["relative", "uncertainty"]),
       method: optionalOf(hostile, ["calibration", "ich"]),
       alpha: optionalOf(hostile, [0.01, 0.05]),
+      uy: fc.oneof(range(m, 1, hostile).map((r) => r.map((row) => row.map((v) => (typeof v === "number" ? Math.abs(v) : v)))), cellOf(hostile).map((c) => [[typeof c === "number" ? Math.abs(c) : c]])),
+      ux: fc.oneof(range(m, 1, hostile).map((r) => r.map((row) => row.map((v) => (typeof v === "number" ? Math.abs(v) / 10 : v)))), fc.constantFrom<unknown[][]>([[0]], [[0.1]], [[1]])),
+      correlation: fc.oneof({ weight: 4, arbitrary: fc.constant<unknown>(null) }, { weight: 1, arbitrary: fc.constantFrom<unknown>([[0.5]], [[-0.9]], [[2]], "x") }),
       poke: fc.nat(),
     }),
   );
 
-type Args = { id: string; y: unknown[][]; x: unknown[][]; newx: unknown[][]; newy: unknown[][]; intercept: unknown; weights: unknown; degree: unknown; interval: unknown; level: unknown; replicates: unknown; ureading: unknown; headers: unknown; weighting: unknown; method: unknown; alpha: unknown; poke: number };
+type Args = { id: string; y: unknown[][]; x: unknown[][]; newx: unknown[][]; newy: unknown[][]; intercept: unknown; weights: unknown; degree: unknown; interval: unknown; level: unknown; replicates: unknown; ureading: unknown; headers: unknown; weighting: unknown; method: unknown; alpha: unknown; uy: unknown; ux: unknown; correlation: unknown; poke: number };
 
 function clone(v: unknown): unknown {
   if (Array.isArray(v)) return v.map(clone);
@@ -114,7 +117,7 @@ function sameOutcome(a: { value?: unknown; error?: unknown }, b: { value?: unkno
 }
 
 function argsOf(a: Args): Record<string, unknown> {
-  return { y: a.y, x: a.x, newx: a.newx, newy: a.newy, intercept: a.intercept, weights: a.weights, degree: a.degree, interval: a.interval, level: a.level, replicates: a.replicates, ureading: a.ureading, headers: a.headers, weighting: a.weighting, method: a.method, alpha: a.alpha };
+  return { y: a.y, x: a.x, newx: a.newx, newy: a.newy, intercept: a.intercept, weights: a.weights, degree: a.degree, interval: a.interval, level: a.level, replicates: a.replicates, ureading: a.ureading, headers: a.headers, weighting: a.weighting, method: a.method, alpha: a.alpha, uy: a.uy, ux: a.ux, correlation: a.correlation };
 }
 
 let calls = 0;
@@ -147,11 +150,12 @@ function checkShape(a: Args, value: unknown[][]): void {
       else expect(typeof c).toBe("string");
     }
   }
-  const h = value.length > 0 && typeof value[0]![0] === "string" && a.id !== "STATS" && a.id !== "CHECK" && a.id !== "LIMITS" && a.id !== "GOF" ? 1 : 0; // a header row or term column
-  const widths: Record<string, number[]> = { COEF: [1, 2], FITTED: [1, value.length === 1 ? w : 1], RESID: [1, value.length === 1 ? w : 1], COV: [value.length, value.length - h, value.length], PARAMS: [6, 7], STATS: [2], PREDICT: [1, 3, w], INFLUENCE: [4], CHECK: [1], INVERSE: [4], LIMITS: [2], GOF: [2] };
+  const h = value.length > 0 && typeof value[0]![0] === "string" && a.id !== "STATS" && a.id !== "CHECK" && a.id !== "LIMITS" && a.id !== "GOF" && a.id !== "LINEXY" ? 1 : 0; // a header row or term column
+  const widths: Record<string, number[]> = { COEF: [1, 2], FITTED: [1, value.length === 1 ? w : 1], RESID: [1, value.length === 1 ? w : 1], COV: [value.length, value.length - h, value.length], PARAMS: [6, 7], STATS: [2], PREDICT: [1, 3, w], INFLUENCE: [4], CHECK: [1], INVERSE: [4], LIMITS: [2], GOF: [2], LINEXY: [5] };
   expect(widths[a.id], `${a.id} width ${w}`).toContain(w);
   if (a.id === "LIMITS") expect(value.length).toBe(9);
   if (a.id === "GOF") expect(value.length).toBe(13);
+  if (a.id === "LINEXY") expect(value.length).toBe(10);
   if (a.id === "STATS") expect(value.length).toBe(15);
 }
 

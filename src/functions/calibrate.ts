@@ -4,11 +4,12 @@
  * same fit block as the other functions and share the fit cache (README "Calibration").
  */
 import { detectionLimits, inverse, type LimitsOptions } from "../core/calibration";
+import { lineXY, normalLimits } from "../core/linexy";
 import type { Quantity } from "../core/errors";
 import { cellError, SheetError } from "./cellerror";
 import { omitted, requireEnoughRows, type FitArgs } from "./model";
 import { modelFor, q, readHeaders, readLevel, readVector, type CallContext, type Cell, type Grid } from "./lsq";
-import { readNumber, readWord } from "./values";
+import { MAX_RANGE_CELLS, readNumber, readWord } from "./values";
 
 /** Column headings of INVERSE (with `headers`). */
 export const INVERSE_HEADINGS = ["x", "standard uncertainty", "lower limit", "upper limit"];
@@ -107,4 +108,57 @@ export function gofFn(a: FitArgs, ctx?: CallContext): Grid {
     const v = values[i]!;
     return [l, typeof v === "string" ? v : q(v)];
   });
+}
+
+/** Labels of the LINEXY rows (first column), in their fixed order; row 1 is the header row. */
+export const LINEXY_LABELS = ["", "intercept", "slope", "covariance of intercept and slope", "χ² (weighted sum of squared distances)", "degrees of freedom (n − 2)", "p-value of χ²", "iterations", "rows used", "rows skipped"];
+export const LINEXY_HEADINGS = ["estimate", "standard uncertainty", "lower limit", "upper limit"];
+
+/**
+ * A per-row argument that may also be one value for every row: a single cell is repeated, a
+ * range must have one value per row of y.
+ */
+function perRow(v: unknown, name: string, m: number, dflt: number | null): Float64Array {
+  if (omitted(v)) {
+    if (dflt === null) throw new SheetError("#VALUE!", `${name} is required: a standard uncertainty for every row, or one value for all rows`);
+    return new Float64Array(m).fill(dflt);
+  }
+  if (!Array.isArray(v)) {
+    const one = readNumber(v, name, NaN);
+    return new Float64Array(m).fill(one);
+  }
+  const data = readVector(v, name);
+  if (data.length === 1) return new Float64Array(m).fill(data[0]!);
+  if (data.length !== m) throw new SheetError("#VALUE!", `${name} has ${data.length} values but y has ${m}; give one per row, or a single value for all rows`);
+  return data;
+}
+
+export function linexyFn(a: { y: unknown; x: unknown; uy: unknown; ux: unknown; correlation?: unknown; level?: unknown }, ctx?: CallContext): Grid {
+  const level = readLevel(a.level);
+  const y = readVector(a.y, "y");
+  const x = readVector(a.x, "x");
+  if (x.length !== y.length) throw new SheetError("#VALUE!", `y has ${y.length} values but x has ${x.length}; they must match row for row`);
+  const m = y.length;
+  if (m > MAX_RANGE_CELLS / 4) throw new SheetError("#VALUE!", `LINEXY accepts at most ${MAX_RANGE_CELLS / 4} rows`);
+  const uy = perRow(a.uy, "uy", m, null);
+  const ux = perRow(a.ux, "ux", m, null);
+  const r = perRow(a.correlation, "correlation", m, 0);
+  const fit = lineXY({ x, y, ux, uy, r });
+  if (ctx) ctx.result = { lineXY: fit, x, y, ux, uy, level };
+  const la = normalLimits(fit.intercept, fit.uIntercept, level);
+  const lb = normalLimits(fit.slope, fit.uSlope, level);
+  const blank = "";
+  const rows: Cell[][] = [
+    [LINEXY_LABELS[0]!, ...LINEXY_HEADINGS],
+    [LINEXY_LABELS[1]!, q(fit.intercept), q(fit.uIntercept), q(la.lower), q(la.upper)],
+    [LINEXY_LABELS[2]!, q(fit.slope), q(fit.uSlope), q(lb.lower), q(lb.upper)],
+    [LINEXY_LABELS[3]!, q(fit.covariance), blank, blank, blank],
+    [LINEXY_LABELS[4]!, q(fit.chi2), blank, blank, blank],
+    [LINEXY_LABELS[5]!, fit.df, blank, blank, blank],
+    [LINEXY_LABELS[6]!, q(fit.p), blank, blank, blank],
+    [LINEXY_LABELS[7]!, fit.iterations, blank, blank, blank],
+    [LINEXY_LABELS[8]!, fit.used, blank, blank, blank],
+    [LINEXY_LABELS[9]!, fit.skipped, blank, blank, blank],
+  ];
+  return rows;
 }

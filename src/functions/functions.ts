@@ -252,3 +252,21 @@ export function limits(y: any[][], x: any[][], weights: any[][], intercept: any,
 export function gof(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
   return L.invoke("GOF", invocation, { y, x, weights, intercept, degree, weighting }, (ctx) => C.gofFn({ y, x, weights, intercept, degree, weighting }, ctx));
 }
+
+/**
+ * A straight line when x and y both carry known standard uncertainties (generalized distance regression, York's method; ISO/TS 28037 clause 7): intercept and slope with their uncertainties and limits, their covariance, χ² and its p-value, as a labelled table.
+ * @customfunction LINEXY
+ * @helpurl https://localhost:3000/help.html#lsqlinexy
+ * @param y The measured y values: one column (or one row) of numbers.
+ * @param x The measured x values: as many as y.
+ * @param uy Standard uncertainty of each y value: one per row, or a single value for all rows.
+ * @param ux Standard uncertainty of each x value: one per row, or a single value for all rows (0 where x is exact).
+ * @param [correlation] Correlation between the x and y errors of each row: one per row or a single value (default 0).
+ * @param [level] Confidence level for the limits, between 0 and 1 (default 0.95).
+ * @requiresAddress
+ * @requiresParameterAddresses
+ * @returns 10 rows × 5 columns: a header row, then intercept, slope, covariance, χ², degrees of freedom, p-value, iterations, rows used and skipped.
+ */
+export function linexy(y: any[][], x: any[][], uy: any[][], ux: any[][], correlation: any[][], level: any, invocation: CustomFunctions.Invocation): any[][] {
+  return L.invoke("LINEXY", invocation, { y, x, uy, ux, correlation, level }, (ctx) => C.linexyFn({ y, x, uy, ux, correlation, level }, ctx));
+}

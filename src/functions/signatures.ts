@@ -18,6 +18,7 @@ export const SIGNATURES: Readonly<Record<string, readonly string[]>> = {
   INVERSE: ["newy", ...FIT, "level", "replicates", "ureading", "headers", "weighting"],
   LIMITS: [...FIT, "method", "alpha", "beta", "k", "samples", "weighting"],
   GOF: [...FIT, "weighting"],
+  LINEXY: ["y", "x", "uy", "ux", "correlation", "level"],
 };
 
 /** Position of a named argument of function `fn`, or −1. */
