@@ -1,4 +1,5 @@
-// Draws the add-in icons (a few points and a fitted line) and writes assets/icon-{16,32,80}.png.
+// Draws the add-in icons (a few points and a fitted line on a teal disc) and writes
+// assets/icon-{16,32,64,80}.png (64: the manifest's high-resolution icon).
 // Run once with `node scripts/make-icons.mjs`; the PNGs are committed.
 import { writeFileSync, mkdirSync } from "node:fs";
 import { deflateSync } from "node:zlib";
@@ -42,8 +43,8 @@ function pixel(u, v) {
   // line v = 0.82 - 0.65 u
   const d = Math.abs(v - (0.82 - 0.65 * u)) / Math.sqrt(1 + 0.65 ** 2);
   for (const [px, py] of pts) if ((u - px) ** 2 + (v - py) ** 2 < 0.004) return [250, 250, 245, 255];
-  if (d < 0.035) return [255, 196, 64, 255];
-  return [28, 74, 110, 255];
+  if (d < 0.035) return [232, 163, 61, 255];
+  return [14, 107, 98, 255];
 }
 mkdirSync(new URL("../assets", import.meta.url), { recursive: true });
-for (const s of [16, 32, 80]) writeFileSync(new URL(`../assets/icon-${s}.png`, import.meta.url), png(s, pixel));
+for (const s of [16, 32, 64, 80]) writeFileSync(new URL(`../assets/icon-${s}.png`, import.meta.url), png(s, pixel));

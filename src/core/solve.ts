@@ -26,8 +26,12 @@ import { sumSquares } from "./sums";
 export interface FitOptions {
   /** "auto" (default): the fast path when its guarantees hold, else Householder QR; "householder": always Householder QR. */
   readonly path?: "auto" | "householder";
-  /** Use the WebAssembly kernels when the platform has them (default true); false runs their JavaScript twins. */
-  readonly kernels?: boolean;
+  /**
+   * Use the WebAssembly kernels when the platform has them (default true) for problems of at least
+   * KERNEL_MIN_DOUBLES design entries; "always" also for smaller ones (tests); false runs their
+   * JavaScript twins.
+   */
+  readonly kernels?: boolean | "always";
 }
 
 export interface Solution {
@@ -62,10 +66,17 @@ export function isExactResidual(rssScaled: number, yNorm: number, coefScaled: Ar
   return Math.sqrt(rssScaled) <= EXACT_FIT * (yNorm + terms);
 }
 
+/**
+ * Below this many design entries (n·p) a Householder factor lives in ordinary JavaScript memory:
+ * the kernels gain nothing measurable there, and a long-lived runtime holding many small cached
+ * fits would otherwise keep one WebAssembly memory (and its address-space reservation) per fit.
+ */
+export const KERNEL_MIN_DOUBLES = 1 << 16;
+
 export function solve(pb: ScaledProblem, tol: number, opts: FitOptions = {}): Solution {
   const { n, design, yHi, yLo } = pb;
   const p = pb.shape.p;
-  const kernels = opts.kernels !== false;
+  const kernels = opts.kernels === "always" || (opts.kernels !== false && n * p >= KERNEL_MIN_DOUBLES);
   const fast = opts.path !== "householder" && tol >= 0 ? solveNormal(design, n, p, yHi, yLo, tol, kernels ? Workspace.scratch(normalScratch(n, p)) : null) : null;
   let sol: Omit<Solution, "exact" | "rssScaled" | "residScaled"> & { r: Float64Array };
   if (fast) {
