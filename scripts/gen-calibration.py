@@ -13,6 +13,8 @@ Every problem states its formula here, written from the published definitions (s
   (f(x) − ȳ₀)² = q²(s_r²/k + zᵀCz) around x̂ (q: t(n − p) or normal quantile);
 - DIN 32645 calibration-line limits; ICH Q2 3.3·s/b and 10·s/b;
 - lack of fit against pure error; χ²; the t of an added power term;
+- influence measures of NIST's Longley data from the exact rational hat matrix (Python fractions);
+- t and normal quantiles, F and χ² upper tails (mpmath's incomplete beta and gamma functions);
 - generalized distance regression (LINEXY): the slope by minimizing S(b) directly (not York's
   iteration) and the uncertainties from the full Jacobian in (a, b, x*); Deming's closed-form slope
   and the orthogonal line from an SVD as independent special cases.
@@ -369,6 +371,63 @@ def linexy_cases():
     return out
 
 
+def nist_rows(name):
+    here = os.path.dirname(os.path.abspath(__file__))
+    text = open(os.path.join(here, "..", "test", "fixtures", "nist-strd", f"{name}.dat")).read()
+    import re
+    a, b = map(int, re.search(r"Data\s*\(lines\s+(\d+)\s+to\s+(\d+)\)", text).groups())
+    return [[float(v) for v in l.split()] for l in text.splitlines()[a - 1:b] if l.strip()]
+
+
+def exact_influence(name):
+    """Leverage, standardized and studentized residuals and Cook's distance of a NIST dataset with
+    an intercept, from the exact rational hat matrix (Python fractions; the decimal data converted
+    exactly from their binary doubles), square roots in 50-digit mpmath."""
+    from fractions import Fraction as Fr
+    rows = nist_rows(name)
+    n = len(rows)
+    X = [[Fr(1)] + [Fr(v) for v in r[1:]] for r in rows]
+    y = [Fr(r[0]) for r in rows]
+    p = len(X[0])
+    G = [[sum(X[i][a] * X[i][c] for i in range(n)) for c in range(p)] for a in range(p)]
+    # exact inverse by Gauss-Jordan
+    A = [G[a][:] + [Fr(int(a == c)) for c in range(p)] for a in range(p)]
+    for c in range(p):
+        piv = next(r for r in range(c, p) if A[r][c] != 0)
+        A[c], A[piv] = A[piv], A[c]
+        inv = 1 / A[c][c]
+        A[c] = [v * inv for v in A[c]]
+        for r in range(p):
+            if r != c and A[r][c] != 0:
+                f = A[r][c]
+                A[r] = [A[r][t] - f * A[c][t] for t in range(2 * p)]
+    Gi = [row[p:] for row in A]
+    h = [sum(X[i][a] * Gi[a][c] * X[i][c] for a in range(p) for c in range(p)) for i in range(n)]
+    Xty = [sum(X[i][a] * y[i] for i in range(n)) for a in range(p)]
+    b = [sum(Gi[a][c] * Xty[c] for c in range(p)) for a in range(p)]
+    r = [y[i] - sum(X[i][a] * b[a] for a in range(p)) for i in range(n)]
+    rss = sum(v * v for v in r)
+    df = n - p
+    s2 = rss / df
+    out = []
+    for i in range(n):
+        std = M(r[i].numerator) / M(r[i].denominator) / mp.sqrt(M(s2.numerator) / M(s2.denominator) * (1 - M(h[i].numerator) / M(h[i].denominator)))
+        d = df - std * std
+        stud = std * mp.sqrt((df - 1) / d)
+        cooks = std * std * (M(h[i].numerator) / M(h[i].denominator)) / (p * (1 - M(h[i].numerator) / M(h[i].denominator)))
+        out.append(dict(leverage=float(M(h[i].numerator) / M(h[i].denominator)), standardized=float(std), studentized=float(stud), cooks=float(cooks)))
+    return dict(dataset=name, rows=out)
+
+
+def distributions():
+    return dict(
+        tQuantile=[dict(p=pp, df=df, q=float(t_quantile(pp, df))) for pp, df in [(0.975, 1), (0.975, 2), (0.975, 5), (0.975, 10), (0.975, 30), (0.995, 10), (0.95, 5), (0.99, 8), (0.995, 8)]],
+        fUpper=[dict(f=f, d1=a, d2=b, p=float(f_upper(M(f), a, b))) for f, a, b in [(4.965, 1, 10), (4.103, 2, 10), (3.326, 5, 10), (2.348, 10, 20), (214.7464, 18, 20)]],
+        normalQuantile=[dict(p=pp, q=float(normal_quantile(pp))) for pp in [0.5, 0.9, 0.95, 0.975, 0.995, 0.9995, 1e-10]],
+        chiSquareUpper=[dict(x=x, k=k, p=float(chi2_upper(M(x), k))) for x, k in [(1.665, 4), (4.131, 4), (2.743, 4), (0.01, 1), (50.0, 10), (300.0, 200), (1e3, 3)]],
+    )
+
+
 def main():
     cases = []
     mx = [0, 10, 20, 30, 40, 50]
@@ -401,7 +460,7 @@ def main():
     us = [0.02 + 0.01 * v for v in xs]
     ys = [float(f"{0.1 + 0.9 * v + 0.05 * v * v - 0.003 * v ** 3 + u * rng.standard_normal():.4f}") for v, u in zip(xs, us)]
     cases.append(case("invented-known-cubic", "invented (seeded)", xs, ys, w=[1 / M(u) ** 2 for u in us], degree=3, known=True, readings=[(4.0, 1, 0.95, 0.05), (7.5, 2, 0.9, 0.04)]))
-    out = dict(generator="scripts/gen-calibration.py", seed=SEED, python=sys.version.split()[0], numpy=np.__version__, mpmath=mp.__version__, precisionDigits=mp.mp.dps, cases=cases, linexy=linexy_cases())
+    out = dict(generator="scripts/gen-calibration.py", seed=SEED, python=sys.version.split()[0], numpy=np.__version__, mpmath=mp.__version__, precisionDigits=mp.mp.dps, cases=cases, linexy=linexy_cases(), influence=exact_influence("Longley"), distributions=distributions())
     here = os.path.dirname(os.path.abspath(__file__))
     with open(os.path.join(here, "..", "test", "fixtures", "calibration.json"), "w") as f:
         json.dump(out, f, indent=1)

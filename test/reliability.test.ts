@@ -96,9 +96,16 @@ describe("size limits (README 'Size limits')", () => {
         expect((e as SheetError).code).toBe("#VALUE!");
       }
     };
-    // cells: m·(k + 1) with k = 1, no weights
-    expect(() => checkSize(LIMITS.maxCells / 2, 1, false, 2)).not.toThrow();
-    throwsNum(() => checkSize(LIMITS.maxCells / 2 + 1, 1, false, 2));
+    // rows: a worksheet's row count
+    expect(() => checkSize(LIMITS.maxRows, 1, false, 2)).not.toThrow();
+    throwsNum(() => checkSize(LIMITS.maxRows + 1, 1, false, 2));
+    // cells: m·(k + 1) with k = 11, no weights
+    expect(() => checkSize(LIMITS.maxCells / 12, 11, false, 12)).not.toThrow();
+    throwsNum(() => checkSize(LIMITS.maxCells / 12 + 1, 11, false, 12));
+    // polynomials: rows × parameters² with p = degree + 1
+    const mp = Math.floor(LIMITS.maxPolynomialWork / 21 ** 2);
+    expect(() => checkSize(mp, 1, false, 21, 20)).not.toThrow();
+    throwsNum(() => checkSize(mp + 1, 1, false, 21, 20));
     expect(() => checkSize(100, LIMITS.maxParameters - 1, false, LIMITS.maxParameters)).not.toThrow();
     throwsNum(() => checkSize(100, LIMITS.maxParameters, false, LIMITS.maxParameters + 1));
     const m = LIMITS.maxWork / 100 ** 2;

@@ -16,6 +16,7 @@ import { MAX_DEGREE } from "./design";
 import { scaleByPow2 } from "./scale";
 import { twoProd, type DD } from "./dd";
 import { finiteOr } from "./inference";
+import { ADDED_TERM_MAX_WORK } from "./tolerances";
 import type { LeastSquaresFit } from "./fit";
 
 export interface LackOfFit {
@@ -41,6 +42,28 @@ function groupsOfX(fit: LeastSquaresFit): { group: Int32Array; count: number } {
   const { used, n } = fit;
   const { m, k } = fit.shape;
   const x = fit.spec.x;
+  const group = new Int32Array(n);
+  if (n === 0) return { group, count: 0 };
+  if (k === 1) {
+    // One column: sort the values (typed-array sort), keep the distinct ones, and find each row's
+    // group by binary search.
+    const v = Float64Array.from(used, (i) => x[i]!).sort();
+    const distinct: number[] = [];
+    for (let s = 0; s < n; s++) if (s === 0 || v[s] !== v[s - 1]) distinct.push(v[s]!);
+    const d = Float64Array.from(distinct);
+    for (let t = 0; t < n; t++) {
+      const xv = x[used[t]!]!;
+      let lo = 0;
+      let hi = d.length - 1;
+      while (lo < hi) {
+        const mid = (lo + hi) >> 1;
+        if (d[mid]! < xv) lo = mid + 1;
+        else hi = mid;
+      }
+      group[t] = lo;
+    }
+    return { group, count: d.length };
+  }
   const order = Array.from({ length: n }, (_, t) => t);
   const cmp = (a: number, b: number): number => {
     for (let c = 0; c < k; c++) {
@@ -50,13 +73,12 @@ function groupsOfX(fit: LeastSquaresFit): { group: Int32Array; count: number } {
     return 0;
   };
   order.sort(cmp);
-  const group = new Int32Array(n);
   let count = 0;
   for (let s = 0; s < n; s++) {
     if (s > 0 && cmp(order[s - 1]!, order[s]!) !== 0) count++;
     group[order[s]!] = count;
   }
-  return { group, count: n > 0 ? count + 1 : 0 };
+  return { group, count: count + 1 };
 }
 
 export function lackOfFit(fit: LeastSquaresFit): LackOfFit {
@@ -158,6 +180,10 @@ export function addedTerm(fit: LeastSquaresFit, refit: (spec: LeastSquaresFit["s
   }
   if (fit.n <= fit.rank + 1) {
     const na = notAvailable("too few rows to fit one more term and still measure the scatter");
+    return { term, t: na, p: na };
+  }
+  if (fit.n * (fit.parameters + 1) ** 2 > ADDED_TERM_MAX_WORK) {
+    const na = notAvailable(`not run: refitting ${fit.n} rows with one more term is too much work for a cell formula (limit: rows × (parameters + 1)² ≤ ${ADDED_TERM_MAX_WORK.toExponential(0)}); use GOF's lack-of-fit test with repeated x values, or fit a higher degree directly`);
     return { term, t: na, p: na };
   }
   let f2: LeastSquaresFit;

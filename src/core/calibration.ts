@@ -42,7 +42,6 @@
 import { notAvailable, type Quantity } from "./errors";
 import { tQuantile } from "./distributions";
 import { critical, errorScale, finiteOr } from "./inference";
-import { quadraticForm } from "./sums";
 import { scaleByPow2 } from "./scale";
 import type { LeastSquaresFit } from "./fit";
 
@@ -102,15 +101,12 @@ function curveOf(fit: LeastSquaresFit): Curve | string {
   }
   const sc = errorScale(fit);
   if ("na" in sc) return sc.na;
-  const C = fit.scaledCovariance();
   const p = fit.parameters;
-  const z = new Float64Array(p);
   const row = new Float64Array(p);
   const sg = scaleByPow2(sc.s, sc.e);
   const variance = (x: number): number => {
     fit.problem.designRow([x], 1, 0, row);
-    for (let j = 0; j < p; j++) z[j] = scaleByPow2(row[j]!, fit.cs[j]!);
-    return sg * sg * Math.max(0, quadraticForm(C, p, z));
+    return sg * sg * fit.hatOfNewRow(row);
   };
   const sigma2 = fit.spec.varianceKnown ? null : sg * sg;
   return { c, d, xmin, xmax, variance, sigma2 };

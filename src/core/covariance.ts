@@ -10,14 +10,28 @@
  * takes several right-hand sides in one pass over the data; accuracy about κε²).
  */
 import type { Conditioning } from "./condition";
+import { LsqError } from "./errors";
 import { gramResidual, splitGram, splitGramBound } from "./gram";
 import type { Factor } from "./qr";
 import { ddGram, refineAugmented, StopRule } from "./refine";
 import type { ScaledProblem } from "./problem";
 import type { Solution } from "./solve";
-import { COV_GRAM_MAX_CONDITION, EPS } from "./tolerances";
+import { COV_AUGMENTED_MAX_WORK, COV_GRAM_MAX_CONDITION, EPS } from "./tolerances";
+import { notAvailable, type NotAvailable } from "./errors";
+
+/** Why the refined covariance will not be computed (over the work limit), or null when it will. */
+export function covarianceRefused(pb: ScaledProblem, sol: Solution, cond: Conditioning | null): NotAvailable | null {
+  const r = sol.factor.rank;
+  if (sol.fastGram || !cond || cond.value <= COV_GRAM_MAX_CONDITION) return null;
+  if (pb.n * r * r <= COV_AUGMENTED_MAX_WORK) return null;
+  return notAvailable(
+    `the columns are so nearly dependent (condition number ${cond.value.toExponential(1)}) that refining the covariance to full accuracy for ${pb.n} rows and ${r} columns would take too long for a cell formula (limit: rows × columns² ≤ ${COV_AUGMENTED_MAX_WORK.toExponential(0)} for such designs); remove nearly dependent columns or use fewer rows`,
+  );
+}
 
 export function refinedCovariance(pb: ScaledProblem, sol: Solution, cond: Conditioning | null): Float64Array {
+  const refused = covarianceRefused(pb, sol, cond);
+  if (refused) throw new LsqError("range", refused.na);
   const { factor, householder } = sol;
   const r = factor.rank;
   let out: Float64Array;

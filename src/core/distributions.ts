@@ -35,9 +35,18 @@ export function tQuantile(p: number, df: number): number {
   return tQuantileStdlib(p, df);
 }
 
-/** The p-quantile of the standard normal distribution. */
+/**
+ * The p-quantile of the standard normal distribution: stdlib's value, then one Newton step on
+ * Φ(q) − p with Φ from erfc (accurate in both tails), which restores full relative accuracy in the
+ * far tails where the starting value carries about 1e-9.
+ */
 export function normalQuantile(p: number): number {
-  return normalQuantileStdlib(p, 0, 1);
+  const q = normalQuantileStdlib(p, 0, 1);
+  if (!Number.isFinite(q) || !(p > 0 && p < 1)) return q;
+  const pdf = Math.exp(-0.5 * q * q) / Math.sqrt(2 * Math.PI);
+  if (!(pdf > 0)) return q;
+  // lower tail Φ(q) for q < 0, upper tail 1 − Φ(q) for q ≥ 0, each from erfc without cancellation
+  return q < 0 ? q - (0.5 * erfc(-q / Math.SQRT2) - p) / pdf : q + (0.5 * erfc(q / Math.SQRT2) - (1 - p)) / pdf;
 }
 
 /** Two-sided p-value P(|Z| ≥ |z|) for a standard normal Z: erfc(|z|/√2). */

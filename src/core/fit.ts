@@ -20,14 +20,15 @@
 import { LsqError, notAvailable, type NotAvailable, type Quantity } from "./errors";
 import { RowStatus, type ModelShape, type ModelSpec } from "./design";
 import { nrm2, type Factor, type HouseholderQR } from "./qr";
-import { columnOf, refineAugmented, residualUpdate, type DDMatrix } from "./refine";
+import { columnOf, dot2, refineAugmented, residualUpdate, type DDMatrix } from "./refine";
 import { pow2, scaleByPow2 } from "./scale";
-import { twoSum, type DD } from "./dd";
+import { quadraticForm } from "./sums";
+import { SPLITTER, twoSum, type DD } from "./dd";
 import { conditionNumber, type Conditioning } from "./condition";
 import { ScaledProblem } from "./problem";
 import { solve, type FitOptions, type Solution } from "./solve";
-import { refinedCovariance } from "./covariance";
-import { leverage } from "./leverage";
+import { covarianceRefused, refinedCovariance } from "./covariance";
+import { correctionMatrix, hatCorrection, hatOfRow, leverage, leverageRefined } from "./leverage";
 import {
   chiSquare,
   computeStatistics,
@@ -43,7 +44,7 @@ import {
   type ParameterRow,
   type Prediction,
 } from "./inference";
-import { defaultTolerance } from "./tolerances";
+import { defaultTolerance, LEVERAGE_REFINED_MAX_WORK } from "./tolerances";
 import { addedTerm, lackOfFit, type AddedTerm, type LackOfFit } from "./adequacy";
 
 export type { FitOptions } from "./solve";
@@ -64,9 +65,10 @@ export interface Dependency {
   readonly zero: boolean;
   /** Relative size of the part of the column not explained by the relation (0 = exact). */
   readonly remainder: number;
-  /** Largest deviation from the relation over the used rows, relative to the size of its terms (user units). */
-  readonly deviation: number;
 }
+
+/** Refinement steps for a dependency relation (see `dependencies`). */
+const DEPENDENCY_STEPS = 3;
 
 export class LeastSquaresFit {
   readonly problem: ScaledProblem;
@@ -204,7 +206,71 @@ export class LeastSquaresFit {
     return b;
   }
 
-  /** Dependency relation of every non-identifiable column on the kept columns before it. */
+  /**
+   * The coefficients' low parts (user units, one per design column; 0 for non-identifiable ones):
+   * b + δ is the least-squares solution to about κ·ε² relative. On the Householder path
+   * δ = R⁻¹Q₁ᵀf with f = ỹ − r̃ − X̃b (r̃ the refined residual, so f = X̃δ lies in the column space;
+   * compensated, one pass over the data); on the fast path δ = (RᵀR)⁻¹X̃ᵀ(ỹ − X̃b). Predictions use b + δ, so a prediction at a point where large coefficients cancel keeps
+   * its relative accuracy.
+   */
+  coefficientsLow(): Float64Array {
+    return this.once("coefficientsLow", () => {
+      const { n, design } = this;
+      const r = this.rank;
+      const kept = this.factor.kept;
+      const s = Float64Array.from(this.yHi);
+      const comp = this.yLo ? Float64Array.from(this.yLo) : new Float64Array(n);
+      const qr = this.householder;
+      if (qr) {
+        // f = ỹ − r̃ − X̃b with r̃ the refined residual: X̃(b* − b) exactly, in the column space
+        const rr = this.residScaled;
+        for (let t = 0; t < n; t++) {
+          const a = s[t]!;
+          const b = -rr[t]!;
+          const sn = a + b;
+          const bb = sn - a;
+          comp[t]! += a - (sn - bb) + (b - bb);
+          s[t] = sn;
+        }
+      }
+      for (let k = 0; k < r; k++) residualUpdate(design, kept[k]!, -this.coefScaled[k]!, s, comp, n);
+      let g: Float64Array;
+      if (qr) {
+        // δ = R⁻¹ Q₁ᵀ f: through the orthogonal factor, an error of about κ·ε of δ itself (the
+        // normal equations would amplify by κ²)
+        const v = new Float64Array(n);
+        for (let t = 0; t < n; t++) v[t] = s[t]! + comp[t]!;
+        qr.applyQt(r, v);
+        g = v.slice(0, r);
+        qr.solveR(r, g);
+      } else {
+        // fast path (condition number below about 50): δ = (RᵀR)⁻¹ X̃ᵀ r_d
+        const vh = new Float64Array(n);
+        const vl = new Float64Array(n);
+        for (let t = 0; t < n; t++) {
+          const v = s[t]! + comp[t]!;
+          const u = SPLITTER * v;
+          const h = u - (u - v);
+          vh[t] = h;
+          vl[t] = v - h;
+        }
+        g = new Float64Array(r);
+        const dd: DD = { hi: 0, lo: 0 };
+        for (let k = 0; k < r; k++) g[k] = dot2(design, kept[k]!, vh, vl, n, 0, dd).hi;
+        this.factor.solveRt(r, g);
+        this.factor.solveR(r, g);
+      }
+      const out = new Float64Array(this.shape.p);
+      for (let k = 0; k < r; k++) out[kept[k]!] = scaleByPow2(g[k]!, this.cs[kept[k]!]! - this.ys);
+      return out;
+    });
+  }
+
+  /**
+   * Dependency relation of every non-identifiable column on the kept columns before it. The
+   * relation's coefficients are shown to 6 significant digits and used against the rank
+   * tolerance, so three refinement steps on the augmented system are enough (DEPENDENCY_STEPS).
+   */
   dependencies(): Dependency[] {
     return this.once("dependencies", () => {
       const out: Dependency[] = [];
@@ -215,28 +281,37 @@ export class LeastSquaresFit {
         const colHi = columnOf(design, j);
         const colNorm = nrm2(colHi, 0, n);
         if (colNorm === 0 || !qr) {
-          out.push({ column: j, on: new Int32Array(0), coef: new Float64Array(0), scaled: new Float64Array(0), zero: true, remainder: 0, deviation: 0 });
+          out.push({ column: j, on: new Int32Array(0), coef: new Float64Array(0), scaled: new Float64Array(0), zero: true, remainder: 0 });
           continue;
         }
         const bLo = design.lo ? design.lo.subarray(j * n, (j + 1) * n) : null;
-        const sol = nk > 0 ? refineAugmented(qr, design, nk, 1, colHi, bLo, null) : null;
+        const sol = nk > 0 ? refineAugmented(qr, design, nk, 1, colHi, bLo, null, { maxSteps: DEPENDENCY_STEPS }) : null;
         const on = this.factor.kept.slice(0, nk);
         const coef = new Float64Array(nk);
         for (let k = 0; k < nk; k++) coef[k] = scaleByPow2(sol!.x[k]!, cs[on[k]!]! - cs[j]!);
         const rem = sol ? nrm2(sol.r, 0, n) / colNorm : 1;
-        const d = { column: j, on, coef, scaled: sol ? sol.x : new Float64Array(0), zero: false, remainder: rem, deviation: 0 };
-        // The data's own largest deviation from the relation (user units), so that a new row is
-        // judged against what the data showed as well as against the rank tolerance.
-        const row = new Float64Array(this.shape.p);
-        let dev = 0;
-        for (let t = 0; t < n; t++) {
-          this.problem.designRow(this.spec.x, this.shape.m, this.used[t]!, row);
-          dev = Math.max(dev, relationDeviation(d, row));
-        }
-        d.deviation = dev;
-        out.push(d);
+        out.push({ column: j, on, coef, scaled: sol ? sol.x : new Float64Array(0), zero: false, remainder: rem });
       }
       return out;
+    });
+  }
+
+  /**
+   * The data's own largest deviation from each dependency relation (user units, relative to the
+   * size of the relation's terms), computed when a prediction first asks for it.
+   */
+  private dependencyDeviations(): Float64Array {
+    return this.once("dependencyDeviations", () => {
+      const deps = this.dependencies();
+      const dev = new Float64Array(deps.length);
+      const row = new Float64Array(this.shape.p);
+      for (let t = 0; t < this.n; t++) {
+        this.problem.designRow(this.spec.x, this.shape.m, this.used[t]!, row);
+        deps.forEach((d, u) => {
+          if (!d.zero) dev[u] = Math.max(dev[u]!, relationDeviation(d, row));
+        });
+      }
+      return dev;
     });
   }
 
@@ -247,12 +322,16 @@ export class LeastSquaresFit {
    */
   brokenDependency(row: Float64Array): Dependency | null {
     const tol = this.factor.tolerance;
-    for (const d of this.dependencies()) {
+    const deps = this.dependencies();
+    if (deps.length === 0) return null;
+    const dev = this.dependencyDeviations();
+    for (let u = 0; u < deps.length; u++) {
+      const d = deps[u]!;
       if (d.zero) {
         if (row[d.column] !== 0) return d;
         continue;
       }
-      if (relationDeviation(d, row) > Math.max(tol, d.deviation)) return d;
+      if (relationDeviation(d, row) > Math.max(tol, dev[u]!)) return d;
     }
     return null;
   }
@@ -321,7 +400,16 @@ export class LeastSquaresFit {
 
   // ------------------------------------------------------------------ covariance
 
-  /** Refined unscaled covariance of the scaled kept design, C̃ = (X̃_Kᵀ X̃_K)⁻¹ (covariance.ts). */
+  /**
+   * Why the covariance is not computed for this fit (the work limit for nearly dependent designs,
+   * tolerances.ts COV_AUGMENTED_MAX_WORK), or null. Every statistic built on the covariance reads
+   * this first.
+   */
+  covarianceRefused(): NotAvailable | null {
+    return this.once("covarianceRefused", () => (this.rank > 0 ? covarianceRefused(this.problem, this.sol, this.condition()) : null));
+  }
+
+  /** Refined unscaled covariance of the scaled kept design, C̃ = (X̃_Kᵀ X̃_K)⁻¹ (covariance.ts); throws LsqError when refused. */
   scaledCovariance(): Float64Array {
     return this.once("covariance", () => refinedCovariance(this.problem, this.sol, this.rank > 0 ? this.condition() : null));
   }
@@ -378,7 +466,27 @@ export class LeastSquaresFit {
 
   /** Leverage h_i of each used row (leverage.ts), length n. Cached; callers must not modify it. */
   leverageUsed(): Float64Array {
-    return this.once("leverage", () => leverage(this.design, this.n, this.factor, this.householder, this.options.kernels !== false));
+    return this.once("leverage", () => {
+      // Householder path: corrected for the factor's rounding while affordable (leverage.ts), else
+      // from Q; fast path (κ below about 50): from R.
+      if (this.method === "householder" && this.rank > 0 && this.n * this.rank * this.rank <= LEVERAGE_REFINED_MAX_WORK) return leverageRefined(this.design, this.n, this.factor);
+      return leverage(this.design, this.n, this.factor, this.householder, this.options.kernels !== false);
+    });
+  }
+
+  /**
+   * The hat value of a new design row in user units (the mean response's variance is σ²·h):
+   * from R⁻ᵀ in double-double with the correction for the factor's rounding (leverage.ts) while
+   * rows × rank² ≤ LEVERAGE_REFINED_MAX_WORK, else from the refined covariance.
+   */
+  hatOfNewRow(row: Float64Array): number {
+    const r = this.rank;
+    const kept = this.factor.kept;
+    const zh = new Float64Array(r);
+    const zl = new Float64Array(r);
+    for (let k = 0; k < r; k++) zh[k] = scaleByPow2(row[kept[k]!]!, this.cs[kept[k]!]!);
+    if (this.n * r * r <= LEVERAGE_REFINED_MAX_WORK) return hatOfRow(this.factor, this.once("hatCorrection", () => correctionMatrix(hatCorrection(this.design, this.n, this.factor), r)), zh, zl);
+    return Math.max(0, quadraticForm(this.scaledCovariance(), r, zh));
   }
 
   /** Studentized (deleted) residual of each used row, length n; NaN where not defined. Cached. */

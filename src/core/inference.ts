@@ -100,8 +100,13 @@ export function sigmaScaled(fit: LeastSquaresFit): Quantity {
   return Math.sqrt(fit.rssScaled / df);
 }
 
-/** The error scale used by the covariance, standard errors and intervals. */
+/**
+ * The error scale used by the covariance, standard errors and intervals — or why those are not
+ * available (no residual degrees of freedom, or the covariance refused by its work limit).
+ */
 export function errorScale(fit: LeastSquaresFit): ErrorScale {
+  const refused = fit.covarianceRefused();
+  if (refused) return refused;
   if (fit.spec.varianceKnown) return { s: 1, e: 0 };
   const sig = sigmaScaled(fit);
   return typeof sig === "number" ? { s: sig, e: -fit.ys } : sig;
@@ -275,7 +280,7 @@ export function covarianceTable(fit: LeastSquaresFit, nonIdent: (j: number) => N
   const sc = errorScale(fit);
   const idx = fit.keptIndex();
   const r = fit.rank;
-  const C = fit.scaledCovariance();
+  const C = "na" in sc ? new Float64Array(0) : fit.scaledCovariance();
   const out: Quantity[][] = [];
   for (let i = 0; i < p; i++) {
     const row: Quantity[] = [];
@@ -297,7 +302,7 @@ export function parameterTable(fit: LeastSquaresFit, level: number, nonIdent: (j
   const idx = fit.keptIndex();
   const sc = errorScale(fit);
   const r = fit.rank;
-  const C = r > 0 ? fit.scaledCovariance() : new Float64Array(0);
+  const C = r > 0 && !("na" in sc) ? fit.scaledCovariance() : new Float64Array(0);
   const q = critical(fit, level);
   const rows: ParameterRow[] = [];
   for (let j = 0; j < p; j++) {
@@ -357,8 +362,8 @@ export function predictions(
   const crit = interval ? critical(fit, level) : 0;
   const out: Prediction[] = [];
   const row = new Float64Array(p);
-  const z = new Float64Array(r);
   const kept = fit.factor.kept;
+  const bLow = r > 0 ? fit.coefficientsLow() : new Float64Array(p);
   for (let t = 0; t < q; t++) {
     let missing = -1;
     for (let c = 0; c < k; c++) if (!Number.isFinite(newx[c * q + t]!)) missing = c;
@@ -373,7 +378,8 @@ export function predictions(
       out.push({ value: na, seMean: na, seNew: na, lower: na, upper: na });
       continue;
     }
-    // value Σ row·b in compensated arithmetic (the terms may cancel)
+    // value Σ row·(b + δ) in compensated arithmetic (the terms may cancel; δ: the coefficients'
+    // low parts, fit.coefficientsLow)
     let s = 0;
     let e = 0;
     const tmp: DD = { hi: 0, lo: 0 };
@@ -382,9 +388,8 @@ export function predictions(
       twoProd(row[jj]!, b[jj]!, tmp);
       const sn = s + tmp.hi;
       const bb = sn - s;
-      e += s - (sn - bb) + (tmp.hi - bb) + tmp.lo;
+      e += s - (sn - bb) + (tmp.hi - bb) + tmp.lo + row[jj]! * bLow[jj]!;
       s = sn;
-      z[kk] = scaleByPow2(row[jj]!, fit.cs[jj]!);
     }
     const value = finiteOr(s + e, "the prediction is too large to represent");
     if ("na" in sc || !C) {
@@ -392,7 +397,7 @@ export function predictions(
       out.push({ value, seMean: why, seNew: why, lower: why, upper: why });
       continue;
     }
-    const h = Math.max(0, quadraticForm(C, r, z));
+    const h = fit.hatOfNewRow(row);
     const sg = scaleByPow2(sc.s, sc.e);
     const seMean = finiteOr(sg * Math.sqrt(h), "the standard error is too large to represent");
     const seNew: Quantity = fit.spec.varianceKnown

@@ -91,6 +91,11 @@ export class Workspace {
   private top = 2; // offset 0 stays unused, so a zero pointer can mean "none"
   private static shared: Workspace | null = null;
 
+  /** Bytes the shared scratch workspace holds now (0 before first use); part of the memory budget. */
+  static scratchBytes(): number {
+    return Workspace.shared ? Workspace.shared.memory.buffer.byteLength : 0;
+  }
+
   private constructor(memory: WebAssembly.Memory, k: KernelExports) {
     this.memory = memory;
     this.k = k;

@@ -12,6 +12,7 @@
 import { Workspace } from "./kernels";
 import type { Factor, HouseholderQR } from "./qr";
 import { columnView, type DDMatrix } from "./refine";
+import { twoProd, type DD } from "./dd";
 
 export function leverage(design: DDMatrix, n: number, factor: Factor, householder: HouseholderQR | null, kernels: boolean): Float64Array {
   const h = new Float64Array(n);
@@ -43,6 +44,225 @@ export function leverage(design: DDMatrix, n: number, factor: Factor, householde
     }
   }
   return h;
+}
+
+/**
+ * Leverage corrected for the factor's own rounding (Householder path, n·r² ≤
+ * LEVERAGE_REFINED_MAX_WORK). With R the computed triangular factor, W = X̃_K R⁻¹ spans exactly
+ * the kept columns of the exact design but is orthonormal only up to E = WᵀW − I (of size κ·ε,
+ * from R's backward error). So the hat matrix is W (I + E)⁻¹ Wᵀ and
+ *
+ *     h_i = ‖w_i‖² − w_iᵀ E w_i + w_iᵀ E² w_i + O(κ³ε³)
+ *
+ * Each row w_i comes from Rᵀ w_i = x̃_i by forward substitution in double-double, ‖w_i‖² and E are
+ * accumulated in compensated arithmetic, so h_i is accurate to a few ε whatever the conditioning
+ * up to κ ≈ 1e5 (beyond, the neglected terms grow as (κε)³). Two passes over the rows; W is kept
+ * (n·r doubles) between them.
+ */
+export function leverageRefined(design: DDMatrix, n: number, factor: Factor): Float64Array {
+  const r = factor.rank;
+  const h = new Float64Array(n);
+  const views = Array.from(factor.kept.subarray(0, r), (c) => columnView(design, c));
+  const lo = design.lo;
+  const Rm = new Float64Array(r * r); // R(l, k) at k·r + l
+  for (let k = 0; k < r; k++) for (let l = 0; l <= k; l++) Rm[k * r + l] = factor.r(l, k);
+  const W = new Float64Array(n * r);
+  const wh = new Float64Array(r);
+  const wl = new Float64Array(r);
+  const Gh = new Float64Array(r * r);
+  const Gl = new Float64Array(r * r);
+  const s = new Float64Array(n);
+  const tmp: DD = { hi: 0, lo: 0 };
+  for (let t = 0; t < n; t++) {
+    // Rᵀ w = x̃_t in double-double: w_k = (x_k − Σ_{l<k} R(l,k)·w_l) / R(k,k)
+    let ss = 0;
+    let se = 0;
+    for (let k = 0; k < r; k++) {
+      const v = views[k]!;
+      let acc = v.data[v.off + t]! * v.scale;
+      let err = lo ? lo[factor.kept[k]! * n + t]! : 0;
+      for (let l = 0; l < k; l++) {
+        const rl = Rm[k * r + l]!;
+        if (rl === 0) continue;
+        twoProd(rl, -wh[l]!, tmp);
+        const sn = acc + tmp.hi;
+        const bb = sn - acc;
+        err += acc - (sn - bb) + (tmp.hi - bb) + tmp.lo - rl * wl[l]!;
+        acc = sn;
+      }
+      // (acc + err) / R(k,k) as a double-double
+      const d = Rm[k * r + k]!;
+      const q = (acc + err) / d;
+      twoProd(q, d, tmp);
+      const rem = acc - tmp.hi - tmp.lo + err;
+      wh[k] = q;
+      wl[k] = rem / d;
+      W[t * r + k] = q;
+      // ‖w‖² compensated: q² exactly + 2·q·wl
+      twoProd(q, q, tmp);
+      const sn = ss + tmp.hi;
+      const bb = sn - ss;
+      se += ss - (sn - bb) + (tmp.hi - bb) + tmp.lo + 2 * q * wl[k]!;
+      ss = sn;
+    }
+    s[t] = ss + se;
+    // G_W += w wᵀ (upper triangle), compensated
+    for (let k = 0; k < r; k++)
+      for (let l = 0; l <= k; l++) {
+        const at = k * r + l;
+        twoProd(wh[k]!, wh[l]!, tmp);
+        const g = Gh[at]!;
+        const sn = g + tmp.hi;
+        const bb = sn - g;
+        Gl[at]! += g - (sn - bb) + (tmp.hi - bb) + tmp.lo + wh[k]! * wl[l]! + wl[k]! * wh[l]!;
+        Gh[at] = sn;
+      }
+  }
+  // E = G_W − I (symmetric), in double: it is of size κε and needed to ε absolute
+  const E = new Float64Array(r * r);
+  for (let k = 0; k < r; k++)
+    for (let l = 0; l <= k; l++) {
+      const v = Gh[k * r + l]! - (k === l ? 1 : 0) + Gl[k * r + l]!;
+      E[k * r + l] = v;
+      E[l * r + k] = v;
+    }
+  const K = correctionMatrix(E, r);
+  for (let t = 0; t < n; t++) {
+    let wKw = 0;
+    for (let k = 0; k < r; k++) {
+      let a = 0;
+      for (let l = 0; l < r; l++) a += K[k * r + l]! * W[t * r + l]!;
+      wKw += W[t * r + k]! * a;
+    }
+    h[t] = Math.max(0, s[t]! - wKw);
+  }
+  return h;
+}
+
+/**
+ * E = WᵀW − I for W = X̃_K R⁻¹ (r × r, the same correction as in `leverageRefined`), from one
+ * pass over the rows with each row of W solved in double-double. Predictions use it for the
+ * leverage of a new point (`hatOfRow`).
+ */
+export function hatCorrection(design: DDMatrix, n: number, factor: Factor): Float64Array {
+  const r = factor.rank;
+  const views = Array.from(factor.kept.subarray(0, r), (c) => columnView(design, c));
+  const lo = design.lo;
+  const wh = new Float64Array(r);
+  const wl = new Float64Array(r);
+  const xh = new Float64Array(r);
+  const xl = new Float64Array(r);
+  const Gh = new Float64Array(r * r);
+  const Gl = new Float64Array(r * r);
+  const tmp: DD = { hi: 0, lo: 0 };
+  for (let t = 0; t < n; t++) {
+    for (let k = 0; k < r; k++) {
+      const v = views[k]!;
+      xh[k] = v.data[v.off + t]! * v.scale;
+      xl[k] = lo ? lo[factor.kept[k]! * n + t]! : 0;
+    }
+    solveRtDD(factor, xh, xl, wh, wl);
+    for (let k = 0; k < r; k++)
+      for (let l = 0; l <= k; l++) {
+        const at = k * r + l;
+        twoProd(wh[k]!, wh[l]!, tmp);
+        const g = Gh[at]!;
+        const sn = g + tmp.hi;
+        const bb = sn - g;
+        Gl[at]! += g - (sn - bb) + (tmp.hi - bb) + tmp.lo + wh[k]! * wl[l]! + wl[k]! * wh[l]!;
+        Gh[at] = sn;
+      }
+  }
+  const E = new Float64Array(r * r);
+  for (let k = 0; k < r; k++)
+    for (let l = 0; l <= k; l++) {
+      const v = Gh[k * r + l]! - (k === l ? 1 : 0) + Gl[k * r + l]!;
+      E[k * r + l] = v;
+      E[l * r + k] = v;
+    }
+  return E;
+}
+
+/**
+ * K = (I + E)⁻¹E for the symmetric correction E (Cholesky of I + E, which is close to I), so that
+ * wᵀ(I + E)⁻¹w = ‖w‖² − wᵀKw exactly, with no series to truncate.
+ */
+export function correctionMatrix(E: Float64Array, r: number): Float64Array {
+  const L = new Float64Array(r * r); // lower Cholesky factor of I + E, row-major L[i·r + j]
+  for (let i = 0; i < r; i++)
+    for (let j = 0; j <= i; j++) {
+      let v = E[i * r + j]! + (i === j ? 1 : 0);
+      for (let k = 0; k < j; k++) v -= L[i * r + k]! * L[j * r + k]!;
+      L[i * r + j] = i === j ? Math.sqrt(Math.max(v, Number.MIN_VALUE)) : v / L[j * r + j]!;
+    }
+  const K = new Float64Array(r * r);
+  const col = new Float64Array(r);
+  for (let c = 0; c < r; c++) {
+    for (let i = 0; i < r; i++) {
+      let v = E[i * r + c]!;
+      for (let k = 0; k < i; k++) v -= L[i * r + k]! * col[k]!;
+      col[i] = v / L[i * r + i]!;
+    }
+    for (let i = r - 1; i >= 0; i--) {
+      let v = col[i]!;
+      for (let k = i + 1; k < r; k++) v -= L[k * r + i]! * col[k]!;
+      col[i] = v / L[i * r + i]!;
+    }
+    for (let i = 0; i < r; i++) K[i * r + c] = col[i]!;
+  }
+  return K;
+}
+
+/** Rᵀ w = x (x and w as double-double hi/lo vectors of length rank), forward substitution in double-double. */
+export function solveRtDD(factor: Factor, xh: Float64Array, xl: Float64Array, wh: Float64Array, wl: Float64Array): void {
+  const r = factor.rank;
+  const tmp: DD = { hi: 0, lo: 0 };
+  for (let k = 0; k < r; k++) {
+    let acc = xh[k]!;
+    let err = xl[k]!;
+    for (let l = 0; l < k; l++) {
+      const rl = factor.r(l, k);
+      if (rl === 0) continue;
+      twoProd(rl, -wh[l]!, tmp);
+      const sn = acc + tmp.hi;
+      const bb = sn - acc;
+      err += acc - (sn - bb) + (tmp.hi - bb) + tmp.lo - rl * wl[l]!;
+      acc = sn;
+    }
+    const d = factor.r(k, k);
+    const q = (acc + err) / d;
+    twoProd(q, d, tmp);
+    wh[k] = q;
+    wl[k] = (acc - tmp.hi - tmp.lo + err) / d;
+  }
+}
+
+/**
+ * The hat value z̃ᵀ(X̃_KᵀX̃_K)⁻¹z̃ of a design row z̃ (scaled units, kept columns, double-double)
+ * with the correction K = (I + E)⁻¹E: w = R⁻ᵀz̃ in double-double, h = ‖w‖² − wᵀKw.
+ */
+export function hatOfRow(factor: Factor, K: Float64Array, zh: Float64Array, zl: Float64Array): number {
+  const r = factor.rank;
+  const wh = new Float64Array(r);
+  const wl = new Float64Array(r);
+  solveRtDD(factor, zh, zl, wh, wl);
+  const tmp: DD = { hi: 0, lo: 0 };
+  let ss = 0;
+  let se = 0;
+  for (let k = 0; k < r; k++) {
+    twoProd(wh[k]!, wh[k]!, tmp);
+    const sn = ss + tmp.hi;
+    const bb = sn - ss;
+    se += ss - (sn - bb) + (tmp.hi - bb) + tmp.lo + 2 * wh[k]! * wl[k]!;
+    ss = sn;
+  }
+  let wKw = 0;
+  for (let k = 0; k < r; k++) {
+    let a = 0;
+    for (let l = 0; l < r; l++) a += K[k * r + l]! * wh[l]!;
+    wKw += wh[k]! * a;
+  }
+  return Math.max(0, ss + se - wKw);
 }
 
 /** h_i = Σ_k (Q e_k)_i², one column of Q₁ at a time (in the factor's workspace when it has one). */

@@ -46,6 +46,23 @@ export const EXACT_FIT = 2 * EPS;
 export const COV_GRAM_MAX_CONDITION = 1e7;
 
 /**
+ * The most work (rows × kept columns²) the full augmented refinement of the covariance may take
+ * (designs above COV_GRAM_MAX_CONDITION): 1e8, about 1.5 s measured on a 2-core machine
+ * (README "Size limits"). Above it the covariance and everything built on it (standard errors,
+ * intervals, t and p-values) are #N/A with the reason, rather than a call that runs for tens of
+ * seconds; the coefficients, fitted values and residuals are unaffected.
+ */
+export const COV_AUGMENTED_MAX_WORK = 1e8;
+
+/**
+ * The corrected leverage (leverage.ts, `leverageRefined`: double-double rows of X̃R⁻¹ and the
+ * first- and second-order correction for their non-orthogonality) is used on the Householder path
+ * while rows × rank² ≤ 2e7 (about half a second here); beyond, leverage comes from Q, accurate to
+ * about κ·ε.
+ */
+export const LEVERAGE_REFINED_MAX_WORK = 2e7;
+
+/**
  * Leverage treated as 1 (influence.ts): a row whose 1 − h is at most 64·ε·p cannot be told from
  * one that determines its own fitted value. Leverage on the Householder path is computed from
  * the orthonormal factor Q₁ (rows accurate to a few ε·p absolute), so a smaller gap is noise.
@@ -81,6 +98,13 @@ export const LARGE_RESIDUAL = 3;
  * rule of thumb in regression diagnostics (twice the average).
  */
 export const LEVERAGE_FACTOR = 2;
+
+/**
+ * The added-term curvature test (adequacy.ts) refits the model with one more term; it is run only
+ * while rows × (parameters + 1)² ≤ ADDED_TERM_MAX_WORK (2e8, under a second here), so CHECK and
+ * GOF stay fast on the largest accepted data; above it the test is #N/A with the reason.
+ */
+export const ADDED_TERM_MAX_WORK = 2e8;
 
 /** Significance level at which a lack-of-fit or curvature test makes CHECK report a problem. */
 export const LACK_OF_FIT_ALPHA = 0.01;

@@ -421,32 +421,38 @@ function influenceFindings(input: FindingsInput, out: Finding[]): void {
   const w = fit.spec.weights;
   // Weighted fits: a row's own weight multiplies its leverage (h_i = w_i·x_iᵀ(XᵀWX)⁻¹x_i), so a
   // row whose leverage would be ordinary with the median weight owes its pull to its weight.
-  const medW = w ? median(Array.from(fit.used, (i) => w[i]!)) : 1;
+  const medW = w ? median(Float64Array.from(fit.used, (i) => w[i]!)) : 1;
   // Single-x designs: the smallest and largest x of evenly spread data always have the largest
   // leverage (every design of that shape has them), so they are not reported unless isolated or
   // weighted up.
   const ends = fit.shape.k === 1 ? expectedEnds(fit) : new Set<number>();
+  // Positions t (into the used rows) of the rows to report.
   const byPosition: number[] = [];
   const byWeight: number[] = [];
   const bigRes: number[] = [];
-  fit.used.forEach((i, t) => {
+  const used = fit.used;
+  for (let t = 0; t < n; t++) {
+    const i = used[t]!;
     const h = lev[t]!;
     const wi = w ? w[i]! : 1;
     if (h > lim && n > fit.rank + 1) {
-      if (w && wi > 2 * medW && (h * medW) / wi <= lim) byWeight.push(i);
-      else if (!ends.has(i) || wi > 2 * medW) byPosition.push(i);
+      if (w && wi > 2 * medW && (h * medW) / wi <= lim) byWeight.push(t);
+      else if (!ends.has(i) || wi > 2 * medW) byPosition.push(t);
     }
-    if (Math.abs(stud[t]!) > LARGE_RESIDUAL) bigRes.push(i);
-  });
+    if (Math.abs(stud[t]!) > LARGE_RESIDUAL) bigRes.push(t);
+  }
   const MANY = 5;
-  const top = (list: number[], key: (i: number) => number): number[] => list.slice().sort((a, b) => key(b) - key(a));
-  const levOf = new Map<number, number>();
-  fit.used.forEach((i, t) => levOf.set(i, lev[t]!));
+  /** Input row numbers of the positions, the largest `key` first. */
+  const top = (list: number[], key: (t: number) => number): number[] =>
+    list
+      .slice()
+      .sort((a, b) => key(b) - key(a))
+      .map((t) => rowNo(used[t]!));
   const see = sheet ? "INFLUENCE shows leverage and Cook's distance for every row." : "The residual plot marks them.";
   const levWords = `above ${LEVERAGE_FACTOR}·rank/n = `;
   if (byPosition.length > 0) {
     const c = byPosition.length;
-    const shown = top(byPosition, (i) => levOf.get(i)!).map(rowNo);
+    const shown = top(byPosition, (t) => lev[t]!);
     out.push({
       id: "high-leverage",
       severity: "note",
@@ -460,7 +466,7 @@ function influenceFindings(input: FindingsInput, out: Finding[]): void {
   }
   if (byWeight.length > 0) {
     const c = byWeight.length;
-    const shown = top(byWeight, (i) => levOf.get(i)!).map(rowNo);
+    const shown = top(byWeight, (t) => lev[t]!);
     out.push({
       id: "high-leverage",
       severity: "note",
@@ -471,7 +477,7 @@ function influenceFindings(input: FindingsInput, out: Finding[]): void {
   }
   if (bigRes.length > 0) {
     const c = bigRes.length;
-    const shown = top(bigRes, (i) => Math.abs(stud[fit.used.indexOf(i)]!)).map(rowNo);
+    const shown = top(bigRes, (t) => Math.abs(stud[t]!));
     out.push({
       id: "large-residual",
       severity: "note",
@@ -487,26 +493,28 @@ function influenceFindings(input: FindingsInput, out: Finding[]): void {
 
 /** Input rows at the two ends of a single-x design whose x values are evenly spread there. */
 function expectedEnds(fit: LeastSquaresFit): Set<number> {
-  const { m } = fit.shape;
-  const xs = Array.from(fit.used, (i) => ({ i, v: fit.spec.x[i]! })).sort((a, b) => a.v - b.v);
-  const distinct: number[] = [];
-  for (const p of xs) if (distinct.length === 0 || distinct[distinct.length - 1] !== p.v) distinct.push(p.v);
   const out = new Set<number>();
-  if (distinct.length < 4 || m === 0) return out;
-  const gaps = distinct.slice(1).map((v, t) => v - distinct[t]!);
+  const v = Float64Array.from(fit.used, (i) => fit.spec.x[i]!).sort();
+  const distinct: number[] = [];
+  for (let s = 0; s < v.length; s++) if (s === 0 || v[s] !== v[s - 1]) distinct.push(v[s]!);
+  if (distinct.length < 4) return out;
+  const gaps = Float64Array.from({ length: distinct.length - 1 }, (_, t) => distinct[t + 1]! - distinct[t]!);
   const med = median(gaps);
-  const lowGap = gaps[0]!;
-  const highGap = gaps[gaps.length - 1]!;
-  for (const p of xs) {
-    if (p.v === distinct[0] && lowGap <= 2 * med) out.add(p.i);
-    if (p.v === distinct[distinct.length - 1] && highGap <= 2 * med) out.add(p.i);
+  const lo = distinct[0]!;
+  const hi = distinct[distinct.length - 1]!;
+  const keepLo = gaps[0]! <= 2 * med;
+  const keepHi = gaps[gaps.length - 1]! <= 2 * med;
+  for (const i of fit.used) {
+    const xv = fit.spec.x[i]!;
+    if ((keepLo && xv === lo) || (keepHi && xv === hi)) out.add(i);
   }
   return out;
 }
 
-function median(v: number[]): number {
+/** The median of the values (a sorted copy). */
+function median(v: Float64Array): number {
   if (v.length === 0) return NaN;
-  const s = v.slice().sort((a, b) => a - b);
+  const s = Float64Array.from(v).sort();
   const h = s.length >> 1;
   return s.length % 2 ? s[h]! : 0.5 * (s[h - 1]! + s[h]!);
 }

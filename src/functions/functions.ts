@@ -10,11 +10,15 @@
  * invocation object (calling-cell and argument addresses, recorded for the task pane).
  *
  * Every body runs inside L.invoke, so whatever the arguments hold, the host gets a result or one
- * error value with a message (never a thrown exception).
+ * error value with a message (never a thrown exception). Large calls return a promise of the result
+ * (the runtime accepts either; the declared type stays any[][] so the metadata says "matrix").
  */
 /* global CustomFunctions */
 import * as L from "./lsq";
 import * as C from "./calibrate";
+import { publishEngine } from "./api";
+
+publishEngine();
 
 /**
  * Least-squares coefficients: the intercept first, then one per x column (or per power of x). A coefficient that cannot be estimated shows #N/A with the relation that makes it so.
@@ -32,7 +36,7 @@ import * as C from "./calibrate";
  * @returns One estimate per parameter, in a column.
  */
 export function coef(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, headers: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return L.invoke("COEF", invocation, { y, x, weights, intercept, degree, headers, weighting }, (ctx) => L.coef({ y, x, weights, intercept, degree, headers, weighting }, ctx));
+  return <any[][]>L.invoke("COEF", invocation, { y, x, weights, intercept, degree, headers, weighting }, (ctx) => L.coef({ y, x, weights, intercept, degree, headers, weighting }, ctx));
 }
 
 /**
@@ -50,7 +54,7 @@ export function coef(y: any[][], x: any[][], weights: any[][], intercept: any, d
  * @returns One fitted value per input row.
  */
 export function fitted(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return L.invoke("FITTED", invocation, { y, x, weights, intercept, degree, weighting }, (ctx) => L.fitted({ y, x, weights, intercept, degree, weighting }, ctx));
+  return <any[][]>L.invoke("FITTED", invocation, { y, x, weights, intercept, degree, weighting }, (ctx) => L.fitted({ y, x, weights, intercept, degree, weighting }, ctx));
 }
 
 /**
@@ -68,7 +72,7 @@ export function fitted(y: any[][], x: any[][], weights: any[][], intercept: any,
  * @returns One residual per input row.
  */
 export function resid(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return L.invoke("RESID", invocation, { y, x, weights, intercept, degree, weighting }, (ctx) => L.resid({ y, x, weights, intercept, degree, weighting }, ctx));
+  return <any[][]>L.invoke("RESID", invocation, { y, x, weights, intercept, degree, weighting }, (ctx) => L.resid({ y, x, weights, intercept, degree, weighting }, ctx));
 }
 
 /**
@@ -87,7 +91,7 @@ export function resid(y: any[][], x: any[][], weights: any[][], intercept: any, 
  * @returns A square table, one row and column per parameter.
  */
 export function cov(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, headers: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return L.invoke("COV", invocation, { y, x, weights, intercept, degree, headers, weighting }, (ctx) => L.cov({ y, x, weights, intercept, degree, headers, weighting }, ctx));
+  return <any[][]>L.invoke("COV", invocation, { y, x, weights, intercept, degree, headers, weighting }, (ctx) => L.cov({ y, x, weights, intercept, degree, headers, weighting }, ctx));
 }
 
 /**
@@ -107,7 +111,7 @@ export function cov(y: any[][], x: any[][], weights: any[][], intercept: any, de
  * @returns One row per parameter, six columns.
  */
 export function params(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, level: any, headers: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return L.invoke("PARAMS", invocation, { y, x, weights, intercept, degree, level, headers, weighting }, (ctx) => L.params({ y, x, weights, intercept, degree, level, headers, weighting }, ctx));
+  return <any[][]>L.invoke("PARAMS", invocation, { y, x, weights, intercept, degree, level, headers, weighting }, (ctx) => L.params({ y, x, weights, intercept, degree, level, headers, weighting }, ctx));
 }
 
 /**
@@ -125,7 +129,7 @@ export function params(y: any[][], x: any[][], weights: any[][], intercept: any,
  * @returns 15 rows of label and value.
  */
 export function stats(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return L.invoke("STATS", invocation, { y, x, weights, intercept, degree, weighting }, (ctx) => L.stats({ y, x, weights, intercept, degree, weighting }, ctx));
+  return <any[][]>L.invoke("STATS", invocation, { y, x, weights, intercept, degree, weighting }, (ctx) => L.stats({ y, x, weights, intercept, degree, weighting }, ctx));
 }
 
 /**
@@ -147,7 +151,7 @@ export function stats(y: any[][], x: any[][], weights: any[][], intercept: any, 
  * @returns One prediction per new row; with an interval, three columns: prediction, lower, upper.
  */
 export function predict(newx: any[][], y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, interval: any, level: any, headers: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return L.invoke("PREDICT", invocation, { newx, y, x, weights, intercept, degree, interval, level, headers, weighting }, (ctx) => L.predict({ newx, y, x, weights, intercept, degree, interval, level, headers, weighting }, ctx));
+  return <any[][]>L.invoke("PREDICT", invocation, { newx, y, x, weights, intercept, degree, interval, level, headers, weighting }, (ctx) => L.predict({ newx, y, x, weights, intercept, degree, interval, level, headers, weighting }, ctx));
 }
 
 /**
@@ -166,7 +170,7 @@ export function predict(newx: any[][], y: any[][], x: any[][], weights: any[][],
  * @returns One row per input row, four columns.
  */
 export function influence(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, headers: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return L.invoke("INFLUENCE", invocation, { y, x, weights, intercept, degree, headers, weighting }, (ctx) => L.influence({ y, x, weights, intercept, degree, headers, weighting }, ctx));
+  return <any[][]>L.invoke("INFLUENCE", invocation, { y, x, weights, intercept, degree, headers, weighting }, (ctx) => L.influence({ y, x, weights, intercept, degree, headers, weighting }, ctx));
 }
 
 /**
@@ -186,7 +190,7 @@ export function influence(y: any[][], x: any[][], weights: any[][], intercept: a
  * @returns A column of findings.
  */
 export function check(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, weighting: any, newx: any[][], newy: any[][], invocation: CustomFunctions.Invocation): any[][] {
-  return L.invoke("CHECK", invocation, { y, x, weights, intercept, degree, weighting, newx, newy }, (ctx) => L.check({ y, x, weights, intercept, degree, weighting, newx, newy }, ctx));
+  return <any[][]>L.invoke("CHECK", invocation, { y, x, weights, intercept, degree, weighting, newx, newy }, (ctx) => L.check({ y, x, weights, intercept, degree, weighting, newx, newy }, ctx));
 }
 
 /**
@@ -209,7 +213,7 @@ export function check(y: any[][], x: any[][], weights: any[][], intercept: any, 
  * @returns One row per reading, four columns: x, standard uncertainty, lower limit, upper limit.
  */
 export function inverse(newy: any[][], y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, level: any, replicates: any, ureading: any, headers: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return L.invoke("INVERSE", invocation, { newy, y, x, weights, intercept, degree, level, replicates, ureading, headers, weighting }, (ctx) => C.inverseFn({ newy, y, x, weights, intercept, degree, level, replicates, ureading, headers, weighting }, ctx));
+  return <any[][]>L.invoke("INVERSE", invocation, { newy, y, x, weights, intercept, degree, level, replicates, ureading, headers, weighting }, (ctx) => C.inverseFn({ newy, y, x, weights, intercept, degree, level, replicates, ureading, headers, weighting }, ctx));
 }
 
 /**
@@ -232,7 +236,7 @@ export function inverse(newy: any[][], y: any[][], x: any[][], weights: any[][],
  * @returns 9 rows of label and value.
  */
 export function limits(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, method: any, alpha: any, beta: any, k: any, samples: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return L.invoke("LIMITS", invocation, { y, x, weights, intercept, degree, method, alpha, beta, k, samples, weighting }, (ctx) => C.limitsFn({ y, x, weights, intercept, degree, method, alpha, beta, k, samples, weighting }, ctx));
+  return <any[][]>L.invoke("LIMITS", invocation, { y, x, weights, intercept, degree, method, alpha, beta, k, samples, weighting }, (ctx) => C.limitsFn({ y, x, weights, intercept, degree, method, alpha, beta, k, samples, weighting }, ctx));
 }
 
 /**
@@ -250,7 +254,7 @@ export function limits(y: any[][], x: any[][], weights: any[][], intercept: any,
  * @returns 13 rows of label and value.
  */
 export function gof(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return L.invoke("GOF", invocation, { y, x, weights, intercept, degree, weighting }, (ctx) => C.gofFn({ y, x, weights, intercept, degree, weighting }, ctx));
+  return <any[][]>L.invoke("GOF", invocation, { y, x, weights, intercept, degree, weighting }, (ctx) => C.gofFn({ y, x, weights, intercept, degree, weighting }, ctx));
 }
 
 /**
@@ -268,5 +272,5 @@ export function gof(y: any[][], x: any[][], weights: any[][], intercept: any, de
  * @returns 10 rows × 5 columns: a header row, then intercept, slope, covariance, χ², degrees of freedom, p-value, iterations, rows used and skipped.
  */
 export function linexy(y: any[][], x: any[][], uy: any[][], ux: any[][], correlation: any[][], level: any, invocation: CustomFunctions.Invocation): any[][] {
-  return L.invoke("LINEXY", invocation, { y, x, uy, ux, correlation, level }, (ctx) => C.linexyFn({ y, x, uy, ux, correlation, level }, ctx));
+  return <any[][]>L.invoke("LINEXY", invocation, { y, x, uy, ux, correlation, level }, (ctx) => C.linexyFn({ y, x, uy, ux, correlation, level }, ctx));
 }

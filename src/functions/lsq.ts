@@ -50,12 +50,60 @@ function relationNA(model: Model, j: number): NotAvailable {
 }
 
 /**
+ * Calls whose arguments hold at least this many cells run in phases with a yield to the page
+ * between them (README "Memory and time"): the fit (cached), then the function's own work. The
+ * pane and the host's messages are handled in between; the longest stretch without a yield is one
+ * fit, at most a few seconds at the size limits.
+ */
+export const ASYNC_CELLS = 50_000;
+
+/** Cells of the array arguments, from their lengths only (never walks a hostile array). */
+function argumentCells(args: Record<string, unknown>): number {
+  let n = 0;
+  for (const v of Object.values(args)) {
+    if (!Array.isArray(v)) continue;
+    const first: unknown = v.length > 0 ? v[0] : null;
+    n += v.length * (Array.isArray(first) ? first.length : 1);
+  }
+  return n;
+}
+
+/** Let the page run (a macrotask where the runtime has timers, else a microtask). */
+function yieldToPage(): Promise<void> {
+  const st = (globalThis as { setTimeout?: (f: () => void, ms: number) => unknown }).setTimeout;
+  return new Promise((resolve) => (typeof st === "function" ? st(resolve, 0) : Promise.resolve().then(resolve)));
+}
+
+/**
  * Run one function call for the host: every failure — a bad argument, a fit that cannot be done,
  * or anything unexpected (a throwing getter, a Proxy, a value whose description throws) — becomes
  * one error value with a message. After the call, a call whose arguments passed validation is
  * recorded for the pane, and the fit cache is measured again; neither can make the call fail.
+ * Large calls (ASYNC_CELLS) return a promise and yield to the page between phases.
  */
-export function invoke(fn: string, invocation: unknown, args: Record<string, unknown>, body: (ctx: CallContext) => Grid): Grid {
+export function invoke(fn: string, invocation: unknown, args: Record<string, unknown>, body: (ctx: CallContext) => Grid): Grid | Promise<Grid> {
+  let big = false;
+  try {
+    big = argumentCells(args) >= ASYNC_CELLS;
+  } catch {
+    big = false; // the call itself will report what is wrong with its arguments
+  }
+  if (!big) return runNow(fn, invocation, args, body);
+  return (async () => {
+    await yieldToPage();
+    if ("weights" in args) {
+      try {
+        getModel(args as unknown as FitArgs); // phase 1: the fit, left in the cache
+      } catch {
+        // reported by phase 2, which meets the same error
+      }
+      await yieldToPage();
+    }
+    return runNow(fn, invocation, args, body);
+  })();
+}
+
+function runNow(fn: string, invocation: unknown, args: Record<string, unknown>, body: (ctx: CallContext) => Grid): Grid {
   const ctx: CallContext = { result: null };
   let out: Grid | null = null;
   let err: SheetError | null = null;

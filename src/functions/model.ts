@@ -19,12 +19,16 @@ import { KIND_WORDS, rangeEquals, sampleHash, readBlock, readBoolean, readNumber
  * freezing the host. README "Size limits" gives the reasons and the measured worst times.
  */
 export const LIMITS = {
+  /** Rows: a worksheet's own row count (2^20), so a range can never exceed it anyway. */
+  maxRows: 1_048_576,
   /** Cells in y, x and weights together. */
   maxCells: 12_000_000,
   /** Design columns (intercept + x columns or powers). */
   maxParameters: 200,
   /** Rows × parameters², a proxy for the work of one factorization. */
   maxWork: 1e9,
+  /** Rows × parameters² for polynomials (degree 2 and up), whose powers are formed and refined in double-double. */
+  maxPolynomialWork: 1e8,
 };
 
 /** The arguments every fitting function takes, by name (README "Function reference"). */
@@ -97,11 +101,13 @@ export function readWeighting(v: unknown): Weighting {
 }
 
 /** Refuse inputs above the documented limits (#VALUE! with the numbers), before any work is done. */
-export function checkSize(m: number, k: number, weighted: boolean, p: number): void {
+export function checkSize(m: number, k: number, weighted: boolean, p: number, degree = 1): void {
+  if (m > LIMITS.maxRows) throw new SheetError("#VALUE!", `the data have ${m} rows; the LSQ functions accept at most ${LIMITS.maxRows} (a worksheet's rows)`);
   const cells = m * (k + 1 + (weighted ? 1 : 0));
   if (cells > LIMITS.maxCells) throw new SheetError("#VALUE!", `the data hold ${cells} cells; the LSQ functions accept at most ${LIMITS.maxCells}`);
   if (p > LIMITS.maxParameters) throw new SheetError("#VALUE!", `the model has ${p} parameters; the LSQ functions accept at most ${LIMITS.maxParameters}`);
   if (m * p * p > LIMITS.maxWork) throw new SheetError("#VALUE!", `${m} rows with ${p} parameters is too much work for one cell formula (limit: rows × parameters² ≤ ${LIMITS.maxWork})`);
+  if (degree >= 2 && m * p * p > LIMITS.maxPolynomialWork) throw new SheetError("#VALUE!", `${m} rows with a polynomial of degree ${degree} is too much work for one cell formula (limit for polynomials: rows × parameters² ≤ ${LIMITS.maxPolynomialWork})`);
 }
 
 /** Whether an optional range argument was left out (omitted, or a single empty cell). */
@@ -157,7 +163,7 @@ export function getModel(a: FitArgs): Model {
     if (mw !== m) throw new SheetError("#VALUE!", `${wName} has ${mw} values but y has ${m}; they must match row for row`);
   } else if (weighting === "uncertainty") throw new SheetError("#VALUE!", 'weighting is "uncertainty" but no weights range was given; put the standard uncertainties of y in the weights argument');
   const p = (intercept ? 1 : 0) + (degree >= 2 ? degree : k);
-  checkSize(m, k, hasW, p);
+  checkSize(m, k, hasW, p, degree);
 
   // Look the input up by its content, read straight from the 2-D arrays: a hash of a sample of the
   // cells picks candidates and a comparison of every cell confirms a hit, so a repeated input (the
@@ -188,7 +194,7 @@ export function getModel(a: FitArgs): Model {
   try {
     const weights = w ? (weighting === "uncertainty" ? weightsFromUncertainties(w.data) : w.data) : null;
     const fit = new LeastSquaresFit({ y: y.data, x: x.data, rows: m, cols: k, intercept, weights, degree, varianceKnown: weighting === "uncertainty" });
-    value = makeModel(fit, intercept, k, degree, m, yAsRow, weighting, y, x, w, weights !== w?.data ? weights : null);
+    value = new FitModel(fit, intercept, k, degree, m, yAsRow, weighting, y, x, w, weights !== w?.data ? weights : null);
   } catch (e) {
     value = toSheetError(e);
   }
@@ -203,29 +209,45 @@ export function settleCache(): void {
   cache.settle();
 }
 
-function makeModel(fit: LeastSquaresFit, intercept: boolean, k: number, degree: number, m: number, asRow: boolean, weighting: Weighting, y: Block, x: Block, w: Block | null, ownWeights: Float64Array | null): Model {
-  const labels = defaultLabels(intercept, k, degree);
-  return {
-    fit,
-    labels,
-    m,
-    asRow,
-    weighting,
-    skipReason(i: number, xNames?: readonly string[]): string {
-      const st = fit.status[i];
-      if (st === RowStatus.MissingY) return `y is ${KIND_WORDS[y.kinds[i]!]}`;
-      if (st === RowStatus.MissingX) {
-        const c = fit.missingCol[i]!;
-        return `${xNames?.[c] ?? (k === 1 ? "x" : `x column ${c + 1}`)} is ${KIND_WORDS[x.kinds[c * m + i]!]}`;
-      }
-      if (st === RowStatus.MissingWeight && w) return `${weighting === "uncertainty" ? "the uncertainty" : "the weight"} is ${KIND_WORDS[w.kinds[i]!]}`;
-      if (st === RowStatus.ZeroWeight) return "the weight is zero";
-      return "";
-    },
-    bytes(): number {
-      return fit.retainedBytes() + (ownWeights ? ownWeights.byteLength : 0) + 64 * labels.length + 512;
-    },
-  };
+/**
+ * A fit with what the functions need around it. A class, not an object of closures: a closure
+ * made inside getModel would keep getModel's whole scope — the caller's raw 2-D arguments —
+ * alive for as long as the cache keeps the model (measured by scripts/soak.mjs).
+ */
+class FitModel implements Model {
+  readonly labels: string[];
+  constructor(
+    readonly fit: LeastSquaresFit,
+    intercept: boolean,
+    private readonly k: number,
+    degree: number,
+    readonly m: number,
+    readonly asRow: boolean,
+    readonly weighting: Weighting,
+    private readonly y: Block,
+    private readonly x: Block,
+    private readonly w: Block | null,
+    private readonly ownWeights: Float64Array | null,
+  ) {
+    this.labels = defaultLabels(intercept, k, degree);
+  }
+
+  skipReason(i: number, xNames?: readonly string[]): string {
+    const { fit, k, m, y, x, w } = this;
+    const st = fit.status[i];
+    if (st === RowStatus.MissingY) return `y is ${KIND_WORDS[y.kinds[i]!]}`;
+    if (st === RowStatus.MissingX) {
+      const c = fit.missingCol[i]!;
+      return `${xNames?.[c] ?? (k === 1 ? "x" : `x column ${c + 1}`)} is ${KIND_WORDS[x.kinds[c * m + i]!]}`;
+    }
+    if (st === RowStatus.MissingWeight && w) return `${this.weighting === "uncertainty" ? "the uncertainty" : "the weight"} is ${KIND_WORDS[w.kinds[i]!]}`;
+    if (st === RowStatus.ZeroWeight) return "the weight is zero";
+    return "";
+  }
+
+  bytes(): number {
+    return this.fit.retainedBytes() + (this.ownWeights ? this.ownWeights.byteLength : 0) + 64 * this.labels.length + 512;
+  }
 }
 
 /** Map a core or unexpected error to one spreadsheet error (never throws itself). */
@@ -234,7 +256,8 @@ export function toSheetError(e: unknown): SheetError {
   if (e instanceof LsqError) return new SheetError("#VALUE!", e.message);
   let msg = "an unknown error";
   try {
-    msg = e instanceof Error ? e.message : typeof e === "string" ? e : Object.prototype.toString.call(e);
+    const m = e && typeof e === "object" ? (e as { message?: unknown }).message : undefined;
+    msg = typeof m === "string" ? m : typeof e === "string" ? e : Object.prototype.toString.call(e);
   } catch {
     // a value whose description itself throws: keep the generic words
   }
