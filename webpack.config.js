@@ -47,7 +47,6 @@ module.exports = (env, argv) => {
   const config = {
     devtool: dev ? "source-map" : false,
     entry: {
-      guard: "./src/taskpane/guard.ts",
       functions: "./src/functions/functions.ts",
       taskpane: "./src/taskpane/taskpane.ts",
     },
@@ -70,7 +69,7 @@ module.exports = (env, argv) => {
       new HtmlWebpackPlugin({
         filename: "taskpane.html",
         template: "./src/taskpane/taskpane.html",
-        chunks: ["guard", "functions", "taskpane"],
+        chunks: ["functions", "taskpane"],
         chunksSortMode: "manual",
         inject: "body",
         scriptLoading: "blocking",
@@ -90,6 +89,8 @@ module.exports = (env, argv) => {
       new HelpPage(),
     ],
     devServer: {
+      // this computer only (not every network interface)
+      host: process.env.COLSPACE_HOST || "localhost",
       port: 3000,
       static: { directory: path.resolve(__dirname, "dist") },
       headers: { "Access-Control-Allow-Origin": "*" },

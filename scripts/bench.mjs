@@ -4,12 +4,13 @@ import { spawnSync } from "node:child_process";
 import { readFileSync, rmSync } from "node:fs";
 import { tmpdir, cpus } from "node:os";
 import { join, resolve } from "node:path";
+import { fileURLToPath } from "node:url";
 
 const args = process.argv.slice(2);
 const json = args.includes("--json");
 const si = args.indexOf("--sizes");
 const sizes = (si >= 0 ? args[si + 1] : "1000x5,10000x10,100000x20,1000000x10").split(",").map((s) => s.split("x").map(Number));
-const root = resolve(new URL("..", import.meta.url).pathname);
+const root = resolve(fileURLToPath(new URL("..", import.meta.url)));
 const results = [];
 for (const [rows, cols] of sizes) {
   const out = join(tmpdir(), `colspace-bench-${rows}x${cols}.json`);

@@ -3,9 +3,10 @@
 // instantiates at load time. With `--check`, exit 1 if that file is not up to date.
 import { readFileSync, writeFileSync } from "node:fs";
 import { resolve } from "node:path";
+import { fileURLToPath } from "node:url";
 import wabtInit from "wabt";
 
-const root = resolve(new URL("..", import.meta.url).pathname);
+const root = resolve(fileURLToPath(new URL("..", import.meta.url)));
 const src = resolve(root, "src/core/kernels.wat");
 const out = resolve(root, "src/core/kernels.wasm.ts");
 

@@ -1,14 +1,12 @@
-/* A small Markdown-to-HTML renderer for the help page (headings with anchors, paragraphs,
- * lists, fenced code, tables as preformatted text). Everything is HTML-escaped. */
-function esc(s) {
-  return s.replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;").replace(/"/g, "&quot;");
-}
-function inline(s) {
-  return esc(s)
-    .replace(/`([^`]+)`/g, "<code>$1</code>")
-    .replace(/\*\*([^*]+)\*\*/g, "<strong>$1</strong>")
-    .replace(/\[([^\]]+)\]\((#[^)]+|https:[^)]+)\)/g, '<a href="$2">$1</a>');
-}
+/* The help page (help.html, the target of every function's help link): the user sections of the
+ * README rendered with markdown-it (tables, lists, code, headings), raw HTML off, each heading with
+ * an id ("### LSQ.COEF" → #lsqcoef, "## Missing data" → #missing-data). Sections meant for
+ * contributors or for setting the project up are left out (HELP_SKIP). */
+const MarkdownIt = require("markdown-it");
+
+/** README sections (## headings) that are not for users of the functions. */
+const HELP_SKIP = ["Set up on a fresh machine", "What exists so far", "Performance", "Tests", "For contributors"];
+
 function slug(s) {
   return s
     .toLowerCase()
@@ -16,50 +14,50 @@ function slug(s) {
     .trim()
     .replace(/ +/g, "-");
 }
-function renderMarkdown(md, title) {
-  const lines = md.split("\n");
+
+/** The README without the sections in HELP_SKIP (a section runs to the next ## heading). */
+function userSections(md) {
   const out = [];
-  let i = 0;
-  while (i < lines.length) {
-    const l = lines[i];
-    if (l.startsWith("```")) {
-      const buf = [];
-      i++;
-      while (i < lines.length && !lines[i].startsWith("```")) buf.push(lines[i++]);
-      i++;
-      out.push(`<pre><code>${esc(buf.join("\n"))}</code></pre>`);
-      continue;
-    }
-    const h = /^(#{1,4}) (.*)$/.exec(l);
-    if (h) {
-      out.push(`<h${h[1].length} id="${slug(h[2])}">${inline(h[2])}</h${h[1].length}>`);
-      i++;
-      continue;
-    }
-    if (l.startsWith("|")) {
-      const buf = [];
-      while (i < lines.length && lines[i].startsWith("|")) buf.push(lines[i++]);
-      out.push(`<pre class="table">${esc(buf.filter((r) => !/^\|[-| :]+\|$/.test(r)).join("\n"))}</pre>`);
-      continue;
-    }
-    if (/^\s*[-*] /.test(l)) {
-      const buf = [];
-      while (i < lines.length && /^\s*[-*] /.test(lines[i])) {
-        let item = lines[i++].replace(/^\s*[-*] /, "");
-        while (i < lines.length && /^\s{2,}\S/.test(lines[i]) && !/^\s*[-*] /.test(lines[i])) item += " " + lines[i++].trim();
-        buf.push(`<li>${inline(item)}</li>`);
-      }
-      out.push(`<ul>${buf.join("")}</ul>`);
-      continue;
-    }
-    if (l.trim() === "") {
-      i++;
-      continue;
-    }
-    const buf = [];
-    while (i < lines.length && lines[i].trim() !== "" && !/^(#|```|\||\s*[-*] )/.test(lines[i])) buf.push(lines[i++]);
-    out.push(`<p>${inline(buf.join(" "))}</p>`);
+  let skip = false;
+  for (const line of md.split("\n")) {
+    const h = /^## (.+)$/.exec(line);
+    if (h) skip = HELP_SKIP.includes(h[1].trim());
+    if (!skip) out.push(line);
   }
-  return `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta http-equiv="Content-Security-Policy" content="default-src 'self'; style-src 'self'"><title>${esc(title)}</title><link rel="stylesheet" href="taskpane.css"></head><body class="help">${out.join("\n")}</body></html>`;
+  return out.join("\n");
 }
-module.exports = { renderMarkdown, slug };
+
+function renderMarkdown(md, title) {
+  const mdi = new MarkdownIt({ html: false, linkify: false, typographer: false });
+  const seen = new Map();
+  mdi.core.ruler.push("heading_ids", (state) => {
+    const toks = state.tokens;
+    for (let i = 0; i < toks.length; i++) {
+      if (toks[i].type !== "heading_open") continue;
+      let id = slug(toks[i + 1].content);
+      const n = seen.get(id) ?? 0;
+      seen.set(id, n + 1);
+      if (n > 0) id = `${id}-${n}`;
+      toks[i].attrSet("id", id);
+    }
+  });
+  // links: only in-page anchors and https addresses stay links
+  const defaultLink = mdi.renderer.rules.link_open || ((t, i, o, e, self) => self.renderToken(t, i, o));
+  mdi.renderer.rules.link_open = (tokens, idx, options, env, self) => {
+    const href = tokens[idx].attrGet("href") || "";
+    if (!/^(#|https:)/.test(href)) tokens[idx].attrSet("href", `#${slug(href.replace(/\.md$/, ""))}`);
+    return defaultLink(tokens, idx, options, env, self);
+  };
+  const body = mdi.render(userSections(md));
+  const esc = (s) => s.replace(/&/g, "&amp;").replace(/</g, "&lt;");
+  return `<!doctype html>
+<html lang="en-US"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
+<meta http-equiv="Content-Security-Policy" content="default-src 'none'; style-src 'self'; img-src 'self'">
+<title>${esc(title)}</title><link rel="stylesheet" href="taskpane.css"></head>
+<body class="help">
+${body}
+</body></html>
+`;
+}
+
+module.exports = { renderMarkdown, userSections, slug };

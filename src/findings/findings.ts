@@ -11,6 +11,7 @@
  * fit) is read from the fit, never made again here.
  */
 import type { Dependency, LeastSquaresFit } from "../core/fit";
+import type { LineXY } from "../core/linexy";
 import { RowStatus } from "../core/design";
 import {
   CONDITION_NOTE,
@@ -583,4 +584,62 @@ function defaultReason(s: number): string {
   if (s === RowStatus.MissingY) return "y is empty or not a number";
   if (s === RowStatus.MissingX) return "an x value is empty or not a number";
   return "the weight is empty or not a number";
+}
+
+/** What the pane says about a LINEXY fit: whether the x uncertainties matter, and the χ² verdict. */
+export function lineXYFindings(l: LineXY): Finding[] {
+  const out: Finding[] = [];
+  if (typeof l.slope !== "number") {
+    out.push({ id: "x-uncertainty", severity: "problem", what: [text(`No line: ${typeof l.slope === "object" ? l.slope.na : ""}.`)], done: [], advice: [] });
+    return out;
+  }
+  if (l.skipped > 0)
+    out.push({
+      id: "skipped-rows",
+      severity: "note",
+      what: [num(l.skipped), text(` ${plural(l.skipped, "row", "was", "were")} skipped: a value or an uncertainty is empty or not a number.`)],
+      done: [text(`${l.skipped === 1 ? "It is" : "They are"} left out of the line.`)],
+      advice: [],
+    });
+  if (typeof l.xShare === "number") {
+    const r = l.xShare;
+    if (r >= 0.3)
+      out.push({
+        id: "x-uncertainty",
+        severity: "note",
+        what: [text("The x uncertainties matter here: on the median row, |slope| × u(x) is "), num(r, 2), text(" times u(y).")],
+        done: [text("This line weighs both; an ordinary fit with weights from u(y) alone would pull the slope toward zero and understate its uncertainty.")],
+        advice: [],
+      });
+    else if (r < 0.1)
+      out.push({
+        id: "x-uncertainty",
+        severity: "note",
+        what: [text("The x uncertainties are small beside the y uncertainties: on the median row, |slope| × u(x) is only "), num(r, 2), text(" times u(y).")],
+        done: [text("This line is then close to the ordinary weighted line (COEF or PARAMS with the u(y) values as weights and weighting \"uncertainty\").")],
+        advice: [],
+      });
+  }
+  if (typeof l.p === "number" && typeof l.chi2 === "number") {
+    if (l.p < LACK_OF_FIT_ALPHA)
+      out.push({
+        id: "chi-square",
+        severity: "warning",
+        what: [text("The points scatter about the line more than the stated uncertainties allow: χ² = "), num(l.chi2, 4), text(` on ${l.df} degrees of freedom, p = ${formatP(l.p)}.`)],
+        done: [text("The uncertainties of the intercept and slope use the stated uncertainties as they are, so they are probably too small.")],
+        advice: [text("Check the uncertainties, and whether a straight line describes the data.")],
+      });
+    else if (l.p > 1 - LACK_OF_FIT_ALPHA)
+      out.push({
+        id: "chi-square",
+        severity: "note",
+        what: [text("The points scatter about the line less than the stated uncertainties suggest: χ² = "), num(l.chi2, 4), text(` on ${l.df} degrees of freedom, p = ${formatP(l.p)}.`)],
+        done: [text("The uncertainties of the intercept and slope may be larger than the data show.")],
+        advice: [text("Check whether the stated uncertainties are overstated.")],
+      });
+    else
+      out.push({ id: "none", severity: "ok", what: [text("The scatter about the line agrees with the stated uncertainties: χ² = "), num(l.chi2, 4), text(` on ${l.df} degrees of freedom, p = ${formatP(l.p)}.`)], done: [], advice: [] });
+  }
+  const order: Record<Severity, number> = { problem: 0, warning: 1, note: 2, ok: 3 };
+  return out.sort((a, b) => order[a.severity] - order[b.severity]);
 }

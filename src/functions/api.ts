@@ -6,10 +6,12 @@
  * functions computed (see DEVELOPERS.md "One engine per runtime").
  */
 import { detectionLimits, inverse } from "../core/calibration";
-import { lineXY } from "../core/linexy";
+import { lineXY, normalLimits } from "../core/linexy";
 import { RowStatus } from "../core/design";
 import { Workspace } from "../core/kernels";
-import { findings, findingText, formatNumber, formatP, partsText, relationParts } from "../findings/findings";
+import { findings, findingText, formatNumber, formatP, lineXYFindings, listText, partsText, plural, relationParts } from "../findings/findings";
+import { GOF_LABELS, INVERSE_HEADINGS, inverseOf, lineXYOf, LIMITS_LABELS, limitsOf } from "./calibrate";
+import { PARAMS_HEADINGS, readNewX } from "./lsq";
 import { cacheStats, defaultLabels, fitCache, getModel, toSheetError } from "./model";
 import { lookup, registryStats } from "./registry";
 import { argumentIndex } from "./signatures";
@@ -24,8 +26,25 @@ export function memoryStats(): { fits: number; fitEntries: number; registry: num
   return { fits: c.bytes, fitEntries: c.size, registry: r.bytes, registryRecords: r.records, scratch, total: c.bytes + r.bytes + scratch, budget: memoryBudget().total };
 }
 
+let reassociate: () => void = () => undefined;
+
 export const engine = {
   getModel,
+  inverseOf,
+  limitsOf,
+  lineXYOf,
+  readNewX,
+  lineXYFindings,
+  listText,
+  plural,
+  LIMITS_LABELS,
+  INVERSE_HEADINGS,
+  GOF_LABELS,
+  PARAMS_HEADINGS,
+  /** Associate every function with the host's CustomFunctions again (office.js arrived after functions.js). */
+  associateAll(): void {
+    reassociate();
+  },
   defaultLabels,
   toSheetError,
   lookup,
@@ -41,6 +60,7 @@ export const engine = {
   inverse,
   detectionLimits,
   lineXY,
+  normalLimits,
   RowStatus,
   memoryStats,
   cacheStats,
@@ -51,7 +71,8 @@ export type Engine = typeof engine;
 
 export const ENGINE_KEY = "__colspaceEngine";
 
-/** Publish the engine for the pane (called once by functions.ts). */
-export function publishEngine(): void {
+/** Publish the engine for the pane (called once by functions.ts, with its way to associate again). */
+export function publishEngine(associateWithHost: () => void): void {
+  reassociate = associateWithHost;
   (globalThis as unknown as Record<string, Engine>)[ENGINE_KEY] = engine;
 }

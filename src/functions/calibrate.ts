@@ -3,11 +3,11 @@
  * (decision, detection and quantitation limits) and GOF (tests of the model itself). They take the
  * same fit block as the other functions and share the fit cache (README "Calibration").
  */
-import { detectionLimits, inverse, type LimitsOptions } from "../core/calibration";
-import { lineXY, normalLimits } from "../core/linexy";
+import { detectionLimits, inverse, type InverseRow, type LimitsOptions } from "../core/calibration";
+import { lineXY, normalLimits, type LineXY } from "../core/linexy";
 import type { Quantity } from "../core/errors";
 import { cellError, SheetError } from "./cellerror";
-import { omitted, requireEnoughRows, type FitArgs } from "./model";
+import { omitted, requireEnoughRows, type FitArgs, type Model } from "./model";
 import { modelFor, q, readHeaders, readLevel, readVector, type CallContext, type Cell, type Grid } from "./lsq";
 import { MAX_RANGE_CELLS, readNumber, readWord } from "./values";
 
@@ -21,10 +21,10 @@ function readCount(v: unknown, name: string, dflt: number): number {
   return c;
 }
 
-export function inverseFn(a: FitArgs & { newy: unknown; level?: unknown; replicates?: unknown; ureading?: unknown; headers?: unknown }, ctx?: CallContext): Grid {
+/** INVERSE's arguments read and checked, with its fit and its rows (also used by the pane). */
+export function inverseOf(a: FitArgs & { newy: unknown; level?: unknown; replicates?: unknown; ureading?: unknown }, ctx?: CallContext): { model: Model; newy: Float64Array; level: number; replicates: number; rows: InverseRow[] } {
   const level = readLevel(a.level);
   const replicates = readCount(a.replicates, "replicates", 1);
-  const headers = readHeaders(a.headers);
   let ureading: number | null = null;
   if (!omitted(a.ureading)) {
     ureading = readNumber(a.ureading, "ureading", NaN);
@@ -34,7 +34,12 @@ export function inverseFn(a: FitArgs & { newy: unknown; level?: unknown; replica
   const model = modelFor(a, ctx);
   requireEnoughRows(model);
   if (model.fit.shape.k !== 1) throw new SheetError("#VALUE!", `INVERSE reads a reading back to one x, so x must be a single column (it has ${model.fit.shape.k})`);
-  const rows = inverse(model.fit, newy, { level, replicates, readingUncertainty: ureading }).map((r): Cell[] => [q(r.x), q(r.u), q(r.lower), q(r.upper)]);
+  return { model, newy, level, replicates, rows: inverse(model.fit, newy, { level, replicates, readingUncertainty: ureading }) };
+}
+
+export function inverseFn(a: FitArgs & { newy: unknown; level?: unknown; replicates?: unknown; ureading?: unknown; headers?: unknown }, ctx?: CallContext): Grid {
+  const headers = readHeaders(a.headers);
+  const rows = inverseOf(a, ctx).rows.map((r): Cell[] => [q(r.x), q(r.u), q(r.lower), q(r.upper)]);
   return headers ? [INVERSE_HEADINGS.slice(), ...rows] : rows;
 }
 
@@ -51,7 +56,8 @@ export const LIMITS_LABELS = [
   "measurements per sample",
 ];
 
-export function limitsFn(a: FitArgs & { method?: unknown; alpha?: unknown; beta?: unknown; k?: unknown; samples?: unknown }, ctx?: CallContext): Grid {
+/** LIMITS's arguments read and checked, with its fit and the values in LIMITS_LABELS order (also used by the pane). */
+export function limitsOf(a: FitArgs & { method?: unknown; alpha?: unknown; beta?: unknown; k?: unknown; samples?: unknown }, ctx?: CallContext): { model: Model; values: (Quantity | string)[] } {
   const method = (readWord(a.method, "method", ["calibration", "ich"]) ?? "calibration") as LimitsOptions["method"];
   const alpha = readNumber(a.alpha, "alpha", 0.01);
   if (!(alpha > 0 && alpha < 0.5)) throw new SheetError("#VALUE!", `alpha must be between 0 and 0.5, e.g. 0.01 (it is ${alpha})`);
@@ -64,19 +70,29 @@ export function limitsFn(a: FitArgs & { method?: unknown; alpha?: unknown; beta?
   requireEnoughRows(model);
   const lim = detectionLimits(model.fit, { method, alpha, beta, k, samples });
   const ich = method === "ich";
-  const notUsed = cellError("#N/A", "not used by the ICH Q2 convention");
-  const values: Cell[] = [
-    q(lim.decision),
-    q(lim.detection),
-    q(lim.quantitation),
-    q(lim.criticalResponse),
-    ich ? "ICH Q2: 3.3·s/slope and 10·s/slope" : "calibration line (DIN 32645, ISO 11843-2)",
-    ich ? notUsed : alpha,
-    ich ? notUsed : beta,
-    ich ? 10 : k,
-    ich ? notUsed : samples,
-  ];
-  return LIMITS_LABELS.map((l, i) => [l, values[i]!]);
+  const notUsed: Quantity = { na: "not used by the ICH Q2 convention" };
+  return {
+    model,
+    values: [
+      lim.decision,
+      lim.detection,
+      lim.quantitation,
+      lim.criticalResponse,
+      ich ? "ICH Q2: 3.3·s/slope and 10·s/slope" : "calibration line (DIN 32645, ISO 11843-2)",
+      ich ? notUsed : alpha,
+      ich ? notUsed : beta,
+      ich ? 10 : k,
+      ich ? notUsed : samples,
+    ],
+  };
+}
+
+export function limitsFn(a: FitArgs & { method?: unknown; alpha?: unknown; beta?: unknown; k?: unknown; samples?: unknown }, ctx?: CallContext): Grid {
+  const { values } = limitsOf(a, ctx);
+  return LIMITS_LABELS.map((l, i) => {
+    const v = values[i]!;
+    return [l, typeof v === "string" ? v : q(v)];
+  });
 }
 
 /** Labels of the GOF rows, in their fixed order. */
@@ -133,7 +149,17 @@ function perRow(v: unknown, name: string, m: number, dflt: number | null): Float
   return data;
 }
 
-export function linexyFn(a: { y: unknown; x: unknown; uy: unknown; ux: unknown; correlation?: unknown; level?: unknown }, ctx?: CallContext): Grid {
+/** LINEXY's arguments read and checked, with its result (also used by the pane). */
+export interface LineXYCall {
+  readonly lineXY: LineXY;
+  readonly x: Float64Array;
+  readonly y: Float64Array;
+  readonly ux: Float64Array;
+  readonly uy: Float64Array;
+  readonly level: number;
+}
+
+export function lineXYOf(a: { y: unknown; x: unknown; uy: unknown; ux: unknown; correlation?: unknown; level?: unknown }, ctx?: CallContext): LineXYCall {
   const level = readLevel(a.level);
   const y = readVector(a.y, "y");
   const x = readVector(a.x, "x");
@@ -143,12 +169,17 @@ export function linexyFn(a: { y: unknown; x: unknown; uy: unknown; ux: unknown; 
   const uy = perRow(a.uy, "uy", m, null);
   const ux = perRow(a.ux, "ux", m, null);
   const r = perRow(a.correlation, "correlation", m, 0);
-  const fit = lineXY({ x, y, ux, uy, r });
-  if (ctx) ctx.result = { lineXY: fit, x, y, ux, uy, level };
+  const out: LineXYCall = { lineXY: lineXY({ x, y, ux, uy, r }), x, y, ux, uy, level };
+  if (ctx) ctx.result = out;
+  return out;
+}
+
+export function linexyFn(a: { y: unknown; x: unknown; uy: unknown; ux: unknown; correlation?: unknown; level?: unknown }, ctx?: CallContext): Grid {
+  const { lineXY: fit, level } = lineXYOf(a, ctx);
   const la = normalLimits(fit.intercept, fit.uIntercept, level);
   const lb = normalLimits(fit.slope, fit.uSlope, level);
   const blank = "";
-  const rows: Cell[][] = [
+  return [
     [LINEXY_LABELS[0]!, ...LINEXY_HEADINGS],
     [LINEXY_LABELS[1]!, q(fit.intercept), q(fit.uIntercept), q(la.lower), q(la.upper)],
     [LINEXY_LABELS[2]!, q(fit.slope), q(fit.uSlope), q(lb.lower), q(lb.upper)],
@@ -160,5 +191,4 @@ export function linexyFn(a: { y: unknown; x: unknown; uy: unknown; ux: unknown; 
     [LINEXY_LABELS[8]!, fit.used, blank, blank, blank],
     [LINEXY_LABELS[9]!, fit.skipped, blank, blank, blank],
   ];
-  return rows;
 }

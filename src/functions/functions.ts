@@ -13,12 +13,32 @@
  * error value with a message (never a thrown exception). Large calls return a promise of the result
  * (the runtime accepts either; the declared type stays any[][] so the metadata says "matrix").
  */
-/* global CustomFunctions */
 import * as L from "./lsq";
 import * as C from "./calibrate";
 import { publishEngine } from "./api";
 
-publishEngine();
+/**
+ * The metadata plugin appends `CustomFunctions.associate(id, f)` calls to this module; they resolve
+ * to this module-level object, which keeps every association and passes it on to the host's
+ * CustomFunctions (office.js) — now if office.js has loaded, or when it arrives later
+ * (`associateWithHost`, called by the pane). So the page never needs a stand-in global that
+ * office.js might find in its place, and the pane can appear before office.js does.
+ */
+const associations: [string, (...args: never[]) => unknown][] = [];
+const CustomFunctions = {
+  associate(id: string, f: (...args: never[]) => unknown): void {
+    associations.push([id, f]);
+    forward(id, f);
+  },
+};
+function forward(id: string, f: (...args: never[]) => unknown): void {
+  const host = (globalThis as { CustomFunctions?: { associate?: unknown } }).CustomFunctions;
+  if (host && host !== CustomFunctions && typeof host.associate === "function") (host.associate as (id: string, f: unknown) => void)(id, f);
+}
+/** Pass every association to the host's CustomFunctions again (office.js arrived after this script). */
+function associateWithHost(): void {
+  for (const [id, f] of associations) forward(id, f);
+}
 
 /**
  * Least-squares coefficients: the intercept first, then one per x column (or per power of x). A coefficient that cannot be estimated shows #N/A with the relation that makes it so.
@@ -274,3 +294,5 @@ export function gof(y: any[][], x: any[][], weights: any[][], intercept: any, de
 export function linexy(y: any[][], x: any[][], uy: any[][], ux: any[][], correlation: any[][], level: any, invocation: CustomFunctions.Invocation): any[][] {
   return <any[][]>L.invoke("LINEXY", invocation, { y, x, uy, ux, correlation, level }, (ctx) => C.linexyFn({ y, x, uy, ux, correlation, level }, ctx));
 }
+
+publishEngine(associateWithHost);

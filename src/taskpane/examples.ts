@@ -12,6 +12,8 @@ export interface Example {
   readonly intercept: boolean;
   /** Name of the weights column, if any (it is not a predictor). */
   readonly weights?: string;
+  /** Readings of unknown samples to read back from the curve (calibration examples). */
+  readonly readings?: readonly number[];
 }
 
 const drift = {
@@ -21,6 +23,32 @@ const drift = {
 };
 
 export const EXAMPLES: readonly Example[] = [
+  {
+    id: "photometer",
+    title: "Dye standards on a bench photometer (curved calibration, two unknown samples)",
+    description:
+      "Absorbance of dye standards measured twice each on a bench photometer. The response bends at high concentration, so a straight line misses it (the lack-of-fit test says so) and a quadratic is fitted; two unknown samples are then read back from the curve.",
+    header: ["absorbance", "dye (mg/L)"],
+    rows: [
+      [0.006, 0],
+      [0.002, 0],
+      [0.114, 1],
+      [0.111, 1],
+      [0.215, 2],
+      [0.219, 2],
+      [0.41, 4],
+      [0.406, 4],
+      [0.589, 6],
+      [0.594, 6],
+      [0.756, 8],
+      [0.751, 8],
+      [0.897, 10],
+      [0.902, 10],
+    ],
+    degree: 2,
+    intercept: true,
+    readings: [0.342, 0.688],
+  },
   {
     id: "thermocouple",
     title: "Oven probe calibration (straight line)",
