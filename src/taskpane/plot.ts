@@ -192,9 +192,9 @@ export function drawBand(f: Frame, xs: readonly number[], lo: readonly number[],
 }
 
 /** A figure: the SVG, a caption under it, and a status line that names the focused point. */
-export function figure(title: string, caption: string): { box: HTMLElement; status: HTMLElement; put(svg: SVGSVGElement): void } {
+export function figure(title: string, caption: string, kind: string): { box: HTMLElement; status: HTMLElement; put(svg: SVGSVGElement): void } {
   const box = document.createElement("figure");
-  box.className = "plot";
+  box.className = `plot ${kind}`;
   const h = document.createElement("h3");
   h.textContent = title;
   const cap = document.createElement("figcaption");

@@ -183,7 +183,7 @@ export interface PlotOptions {
 /** Residuals against fitted values, one point per used row (or one sentence for an exact fit). */
 export function renderResidualPlot(model: Model, opts: PlotOptions): HTMLElement {
   const E = engine();
-  const fig = figure("Residuals against fitted values", "Each point is a used row; the dashed line is zero. Hover over or focus a point to see its row.");
+  const fig = figure("Residuals against fitted values", "Each point is a used row; the dashed line is zero. Hover over or focus a point to see its row.", "residual-plot");
   if (model.fit.exact) {
     fig.box.appendChild(el("p", "The fit is exact: every residual is zero to within the rounding of the data, so there is nothing to plot.", "plot-empty"));
     return fig.box;
@@ -245,6 +245,7 @@ export function renderCurvePlot(model: Model, xName: string, yName: string, opts
     pred
       ? `The line is the fitted curve; the darker band is the ${pct} confidence band for the mean response, the lighter one the ${pct} prediction band for a new reading.`
       : `The line is the fitted curve; the band is the ${pct} confidence band for the mean response (with stated uncertainties a new reading's band needs its own uncertainty).`,
+    "curve-plot",
   );
   const f = frame([lo, hi], [y0, y1], xName, yName, `${yName} against ${xName} with the fitted curve, ${pts.length} points`);
   if (pred) drawBand(f, grid, bands[2]!, bands[3]!, "band prediction");
@@ -352,7 +353,7 @@ export function renderLineXY(target: HTMLElement, call: LineXYCall, rowNumber: (
   main.appendChild(box);
   // plot: points with ±u bars in both directions, and the line
   if (typeof l.slope === "number" && typeof l.intercept === "number") {
-    const fig = figure("Data with their uncertainties, and the line", "Bars show ± one standard uncertainty in x and in y; the line is the fitted one.");
+    const fig = figure("Data with their uncertainties, and the line", "Bars show ± one standard uncertainty in x and in y; the line is the fitted one.", "linexy-plot");
     const idx = Array.from(l.rows);
     const xs = idx.map((i) => call.x[i]!);
     const ys = idx.map((i) => call.y[i]!);

@@ -17,14 +17,17 @@
     Error: HostError,
     ErrorCode: { invalidValue: "#VALUE!", notAvailable: "#N/A", divisionByZero: "#DIV/0!", invalidNumber: "#NUM!" },
   };
-  const state = { active: "Sheet1!A1", spill: {}, headers: {}, formulas: {}, written: [], handler: null, calls: [] };
+  const state = { active: "Sheet1!A1", spill: {}, headers: {}, formulas: {}, written: [], handler: null, calls: [], selected: [], values: {} };
   window.__excel = state;
   function range(address) {
     return {
       address,
-      values: undefined,
+      values: state.values[address],
       formulas: [[state.formulas[address] ?? ""]],
       load() {},
+      select() {
+        state.selected.push(address);
+      },
       getSpillParentOrNullObject() {
         const p = state.spill[address];
         return { isNullObject: !p, address: p || "", formulas: [[state.formulas[p] ?? ""]], load() {} };
@@ -75,6 +78,7 @@
     HostType: { Excel: "Excel" },
     EventType: { DocumentSelectionChanged: "documentSelectionChanged" },
     context: {
+      requirements: { isSetSupported: (name, version) => name === "ExcelApi" && Number(version) <= 1.12 },
       document: {
         addHandlerAsync(type, h) {
           state.handler = h;
