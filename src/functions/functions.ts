@@ -56,7 +56,7 @@ function associateWithHost(): void {
  * @returns One estimate per parameter, in a column.
  */
 export function coef(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, headers: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return <any[][]>L.invoke("COEF", invocation, { y, x, weights, intercept, degree, headers, weighting }, (ctx) => L.coef({ y, x, weights, intercept, degree, headers, weighting }, ctx));
+  return <any[][]>L.invoke("COEF", invocation, { y, x, weights, intercept, degree, headers, weighting }, (a, ctx) => L.coef(a as never, ctx));
 }
 
 /**
@@ -74,7 +74,7 @@ export function coef(y: any[][], x: any[][], weights: any[][], intercept: any, d
  * @returns One fitted value per input row.
  */
 export function fitted(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return <any[][]>L.invoke("FITTED", invocation, { y, x, weights, intercept, degree, weighting }, (ctx) => L.fitted({ y, x, weights, intercept, degree, weighting }, ctx));
+  return <any[][]>L.invoke("FITTED", invocation, { y, x, weights, intercept, degree, weighting }, (a, ctx) => L.fitted(a as never, ctx));
 }
 
 /**
@@ -92,7 +92,7 @@ export function fitted(y: any[][], x: any[][], weights: any[][], intercept: any,
  * @returns One residual per input row.
  */
 export function resid(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return <any[][]>L.invoke("RESID", invocation, { y, x, weights, intercept, degree, weighting }, (ctx) => L.resid({ y, x, weights, intercept, degree, weighting }, ctx));
+  return <any[][]>L.invoke("RESID", invocation, { y, x, weights, intercept, degree, weighting }, (a, ctx) => L.resid(a as never, ctx));
 }
 
 /**
@@ -111,7 +111,7 @@ export function resid(y: any[][], x: any[][], weights: any[][], intercept: any, 
  * @returns A square table, one row and column per parameter.
  */
 export function cov(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, headers: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return <any[][]>L.invoke("COV", invocation, { y, x, weights, intercept, degree, headers, weighting }, (ctx) => L.cov({ y, x, weights, intercept, degree, headers, weighting }, ctx));
+  return <any[][]>L.invoke("COV", invocation, { y, x, weights, intercept, degree, headers, weighting }, (a, ctx) => L.cov(a as never, ctx));
 }
 
 /**
@@ -131,7 +131,7 @@ export function cov(y: any[][], x: any[][], weights: any[][], intercept: any, de
  * @returns One row per parameter, six columns.
  */
 export function params(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, level: any, headers: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return <any[][]>L.invoke("PARAMS", invocation, { y, x, weights, intercept, degree, level, headers, weighting }, (ctx) => L.params({ y, x, weights, intercept, degree, level, headers, weighting }, ctx));
+  return <any[][]>L.invoke("PARAMS", invocation, { y, x, weights, intercept, degree, level, headers, weighting }, (a, ctx) => L.params(a as never, ctx));
 }
 
 /**
@@ -149,7 +149,7 @@ export function params(y: any[][], x: any[][], weights: any[][], intercept: any,
  * @returns 15 rows of label and value.
  */
 export function stats(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return <any[][]>L.invoke("STATS", invocation, { y, x, weights, intercept, degree, weighting }, (ctx) => L.stats({ y, x, weights, intercept, degree, weighting }, ctx));
+  return <any[][]>L.invoke("STATS", invocation, { y, x, weights, intercept, degree, weighting }, (a, ctx) => L.stats(a as never, ctx));
 }
 
 /**
@@ -171,7 +171,7 @@ export function stats(y: any[][], x: any[][], weights: any[][], intercept: any, 
  * @returns One prediction per new row; with an interval, three columns: prediction, lower, upper.
  */
 export function predict(newx: any[][], y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, interval: any, level: any, headers: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return <any[][]>L.invoke("PREDICT", invocation, { newx, y, x, weights, intercept, degree, interval, level, headers, weighting }, (ctx) => L.predict({ newx, y, x, weights, intercept, degree, interval, level, headers, weighting }, ctx));
+  return <any[][]>L.invoke("PREDICT", invocation, { newx, y, x, weights, intercept, degree, interval, level, headers, weighting }, (a, ctx) => L.predict(a as never, ctx));
 }
 
 /**
@@ -190,7 +190,7 @@ export function predict(newx: any[][], y: any[][], x: any[][], weights: any[][],
  * @returns One row per input row, four columns.
  */
 export function influence(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, headers: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return <any[][]>L.invoke("INFLUENCE", invocation, { y, x, weights, intercept, degree, headers, weighting }, (ctx) => L.influence({ y, x, weights, intercept, degree, headers, weighting }, ctx));
+  return <any[][]>L.invoke("INFLUENCE", invocation, { y, x, weights, intercept, degree, headers, weighting }, (a, ctx) => L.influence(a as never, ctx));
 }
 
 /**
@@ -210,7 +210,7 @@ export function influence(y: any[][], x: any[][], weights: any[][], intercept: a
  * @returns A column of findings.
  */
 export function check(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, weighting: any, newx: any[][], newy: any[][], invocation: CustomFunctions.Invocation): any[][] {
-  return <any[][]>L.invoke("CHECK", invocation, { y, x, weights, intercept, degree, weighting, newx, newy }, (ctx) => L.check({ y, x, weights, intercept, degree, weighting, newx, newy }, ctx));
+  return <any[][]>L.invoke("CHECK", invocation, { y, x, weights, intercept, degree, weighting, newx, newy }, (a, ctx) => L.check(a as never, ctx));
 }
 
 /**
@@ -233,7 +233,7 @@ export function check(y: any[][], x: any[][], weights: any[][], intercept: any, 
  * @returns One row per reading, four columns: x, standard uncertainty, lower limit, upper limit.
  */
 export function inverse(newy: any[][], y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, level: any, replicates: any, ureading: any, headers: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return <any[][]>L.invoke("INVERSE", invocation, { newy, y, x, weights, intercept, degree, level, replicates, ureading, headers, weighting }, (ctx) => C.inverseFn({ newy, y, x, weights, intercept, degree, level, replicates, ureading, headers, weighting }, ctx));
+  return <any[][]>L.invoke("INVERSE", invocation, { newy, y, x, weights, intercept, degree, level, replicates, ureading, headers, weighting }, (a, ctx) => C.inverseFn(a as never, ctx));
 }
 
 /**
@@ -256,7 +256,7 @@ export function inverse(newy: any[][], y: any[][], x: any[][], weights: any[][],
  * @returns 9 rows of label and value.
  */
 export function limits(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, method: any, alpha: any, beta: any, k: any, samples: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return <any[][]>L.invoke("LIMITS", invocation, { y, x, weights, intercept, degree, method, alpha, beta, k, samples, weighting }, (ctx) => C.limitsFn({ y, x, weights, intercept, degree, method, alpha, beta, k, samples, weighting }, ctx));
+  return <any[][]>L.invoke("LIMITS", invocation, { y, x, weights, intercept, degree, method, alpha, beta, k, samples, weighting }, (a, ctx) => C.limitsFn(a as never, ctx));
 }
 
 /**
@@ -274,7 +274,7 @@ export function limits(y: any[][], x: any[][], weights: any[][], intercept: any,
  * @returns 13 rows of label and value.
  */
 export function gof(y: any[][], x: any[][], weights: any[][], intercept: any, degree: any, weighting: any, invocation: CustomFunctions.Invocation): any[][] {
-  return <any[][]>L.invoke("GOF", invocation, { y, x, weights, intercept, degree, weighting }, (ctx) => C.gofFn({ y, x, weights, intercept, degree, weighting }, ctx));
+  return <any[][]>L.invoke("GOF", invocation, { y, x, weights, intercept, degree, weighting }, (a, ctx) => C.gofFn(a as never, ctx));
 }
 
 /**
@@ -292,7 +292,7 @@ export function gof(y: any[][], x: any[][], weights: any[][], intercept: any, de
  * @returns 10 rows × 5 columns: a header row, then intercept, slope, covariance, χ², degrees of freedom, p-value, iterations, rows used and skipped.
  */
 export function linexy(y: any[][], x: any[][], uy: any[][], ux: any[][], correlation: any[][], level: any, invocation: CustomFunctions.Invocation): any[][] {
-  return <any[][]>L.invoke("LINEXY", invocation, { y, x, uy, ux, correlation, level }, (ctx) => C.linexyFn({ y, x, uy, ux, correlation, level }, ctx));
+  return <any[][]>L.invoke("LINEXY", invocation, { y, x, uy, ux, correlation, level }, (a, ctx) => C.linexyFn(a as never, ctx));
 }
 
 publishEngine(associateWithHost);

@@ -10,6 +10,7 @@ import { findingText, findings, partsText, relationParts } from "../findings/fin
 import { cellError, SheetError, type CellErrorLike } from "./cellerror";
 import { getModel, omitted, requireEnoughRows, settleCache, toSheetError, type FitArgs, type Model } from "./model";
 import { recordCall } from "./registry";
+import { blankPlan, possibleBlanks, resolveBlanks, type BlankPlan } from "./blanks";
 import { readBlock, readBoolean, readNumber, readWord, shapeOf } from "./values";
 
 export type Cell = number | string | CellErrorLike;
@@ -18,6 +19,8 @@ export type Grid = Cell[][];
 /** Where a call records what it computed (for the pane), once its arguments passed validation. */
 export interface CallContext {
   result: object | null;
+  /** Rows whose zeros may be empty cells the host could not confirm (blanks.ts), for CHECK and the pane. */
+  possibleBlanks?: { rows: number[]; columns: string[] };
 }
 
 /** A finite number, or #N/A with the reason (never NaN or Infinity in a cell). */
@@ -81,34 +84,50 @@ function yieldToPage(): Promise<void> {
  * recorded for the pane, and the fit cache is measured again; neither can make the call fail.
  * Large calls (ASYNC_CELLS) return a promise and yield to the page between phases.
  */
-export function invoke(fn: string, invocation: unknown, args: Record<string, unknown>, body: (ctx: CallContext) => Grid): Grid | Promise<Grid> {
+export function invoke(fn: string, invocation: unknown, args: Record<string, unknown>, body: (a: Record<string, unknown>, ctx: CallContext) => Grid): Grid | Promise<Grid> {
   let big = false;
+  let plan: BlankPlan = { checks: [] };
   try {
     big = argumentCells(args) >= ASYNC_CELLS;
+    plan = blankPlan(fn, args, invocation);
   } catch {
-    big = false; // the call itself will report what is wrong with its arguments
+    // the call itself will report what is wrong with its arguments
   }
-  if (!big) return runNow(fn, invocation, args, body);
+  if (!big && plan.checks.length === 0) return runNow(fn, invocation, args, body);
   return (async () => {
-    await yieldToPage();
-    if ("weights" in args) {
+    let a = args;
+    let blanks: CallContext["possibleBlanks"];
+    if (plan.checks.length > 0) {
+      let r: Awaited<ReturnType<typeof resolveBlanks>> = null;
       try {
-        getModel(args as unknown as FitArgs); // phase 1: the fit, left in the cache
+        r = await resolveBlanks(plan, args);
       } catch {
-        // reported by phase 2, which meets the same error
+        r = null;
       }
-      await yieldToPage();
+      if (r) a = r.args;
+      else blanks = possibleBlanks(plan);
     }
-    return runNow(fn, invocation, args, body);
+    if (big) {
+      await yieldToPage();
+      if ("weights" in a) {
+        try {
+          getModel(a as unknown as FitArgs); // phase 1: the fit, left in the cache
+        } catch {
+          // reported by phase 2, which meets the same error
+        }
+        await yieldToPage();
+      }
+    }
+    return runNow(fn, invocation, a, body, blanks);
   })();
 }
 
-function runNow(fn: string, invocation: unknown, args: Record<string, unknown>, body: (ctx: CallContext) => Grid): Grid {
-  const ctx: CallContext = { result: null };
+function runNow(fn: string, invocation: unknown, args: Record<string, unknown>, body: (a: Record<string, unknown>, ctx: CallContext) => Grid, blanks?: CallContext["possibleBlanks"]): Grid {
+  const ctx: CallContext = { result: null, possibleBlanks: blanks };
   let out: Grid | null = null;
   let err: SheetError | null = null;
   try {
-    out = body(ctx);
+    out = body(args, ctx);
   } catch (e) {
     err = toSheetError(e);
   }
@@ -116,7 +135,7 @@ function runNow(fn: string, invocation: unknown, args: Record<string, unknown>, 
     if (ctx.result && invocation && typeof invocation === "object") {
       const inv = invocation as { address?: unknown; parameterAddresses?: unknown };
       const addrs = Array.isArray(inv.parameterAddresses) ? (inv.parameterAddresses as unknown[]) : [];
-      if (typeof inv.address === "string") recordCall(fn, inv.address, addrs, args, ctx.result);
+      if (typeof inv.address === "string") recordCall(fn, inv.address, addrs, args, ctx.result, ctx.possibleBlanks);
     }
     settleCache();
   } catch {
@@ -295,7 +314,7 @@ export function check(a: FitArgs & { newx?: unknown; newy?: unknown }, ctx?: Cal
   }
   const newx = omitted(a.newx) ? undefined : readNewX(model, a.newx, "newx");
   const newy = omitted(a.newy) ? undefined : readVector(a.newy, "newy");
-  return findings({ fit: model.fit, labels: model.labels, skipReason: (i) => model.skipReason(i), weighting: model.weighting, newx, newy }).map((f) => [findingText(f)]);
+  return findings({ fit: model.fit, labels: model.labels, skipReason: (i) => model.skipReason(i), weighting: model.weighting, newx, newy, possibleBlanks: ctx?.possibleBlanks }).map((f) => [findingText(f)]);
 }
 
 /** A single row or column of numbers (NaN for cells that are not numbers). */

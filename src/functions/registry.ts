@@ -27,6 +27,8 @@ export interface FormulaRecord {
   readonly dropped: readonly string[];
   /** The result object of the call (a fit), while something else keeps it alive. */
   readonly ref: { deref(): object | undefined } | null;
+  /** Rows whose zeros may be empty cells the host could not confirm (blanks.ts). */
+  readonly possibleBlanks?: { rows: number[]; columns: string[] };
   /** Time of the call (ms since epoch). */
   readonly at: number;
 }
@@ -78,7 +80,7 @@ const weakRef = (o: object): FormulaRecord["ref"] => {
  * Record a call. `args` are the validated arguments by name; ranges above SMALL_CELLS cells are
  * replaced by null (and named in `dropped`).
  */
-export function recordCall(fn: string, address: string, parameterAddresses: readonly unknown[], args: Record<string, unknown>, result: object | null): void {
+export function recordCall(fn: string, address: string, parameterAddresses: readonly unknown[], args: Record<string, unknown>, result: object | null, possibleBlanks?: { rows: number[]; columns: string[] }): void {
   if (typeof address !== "string" || address === "") return;
   const kept: Record<string, unknown> = {};
   const dropped: string[] = [];
@@ -92,8 +94,9 @@ export function recordCall(fn: string, address: string, parameterAddresses: read
     const a = parameterAddresses[i];
     return typeof a === "string" ? a.slice(0, 300) : "";
   });
-  const rec: FormulaRecord = { fn, address: address.slice(0, 300), parameterAddresses: addrs, args: kept, dropped, ref: result ? weakRef(result) : null, at: Date.now() };
-  const bytes = 200 + bytesOf(rec.address) + addrs.reduce((s, a) => s + bytesOf(a), 0) + Object.values(kept).reduce((s: number, v) => s + bytesOf(v), 0);
+  const blanks = possibleBlanks ? { rows: possibleBlanks.rows.slice(0, 200), columns: possibleBlanks.columns } : undefined;
+  const rec: FormulaRecord = { fn, address: address.slice(0, 300), parameterAddresses: addrs, args: kept, dropped, ref: result ? weakRef(result) : null, possibleBlanks: blanks, at: Date.now() };
+  const bytes = 200 + (blanks ? 16 * blanks.rows.length + 64 : 0) + bytesOf(rec.address) + addrs.reduce((s, a) => s + bytesOf(a), 0) + Object.values(kept).reduce((s: number, v) => s + bytesOf(v), 0);
   const s = store();
   const old = s.map.get(rec.address);
   if (old) {

@@ -179,7 +179,8 @@ export function startExcel(app: HTMLElement): void {
       } else if (rec.fn === "LIMITS") before.push(renderLimits(E.limitsOf(full as never).values));
       if ((rec.fn === "PREDICT" || rec.fn === "CHECK") && full.newx) newx = E.readNewX(model, full.newx, "newx");
       if (rec.fn === "CHECK" && full.newy) newy = Float64Array.from((full.newy as unknown[][]).flat(), (v) => (typeof v === "number" ? v : NaN));
-      renderFit(out, model, labels, { rowNumber, xNames: names, title: "Row numbers are worksheet rows.", pick, before, newx, newy, readings, level: typeof full.level === "number" ? full.level : 0.95 });
+      const blanks = rec.possibleBlanks ? { rows: rec.possibleBlanks.rows.map((r) => row0 + r - 1), columns: rec.possibleBlanks.columns } : undefined;
+      renderFit(out, model, labels, { rowNumber, xNames: names, title: "Row numbers are worksheet rows.", pick, before, newx, newy, readings, possibleBlanks: blanks, level: typeof full.level === "number" ? full.level : 0.95 });
     } catch (e) {
       const err = E.toSheetError(e);
       showProblem(`LSQ.${rec.fn} in ${rec.address} shows ${err.code}: ${err.message}`);

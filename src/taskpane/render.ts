@@ -389,6 +389,8 @@ export interface FitViewOptions {
   level?: number;
   newx?: { data: Float64Array; rows: number };
   newy?: Float64Array;
+  /** Rows whose zeros may be empty cells (worksheet row numbers), when the host could not confirm. */
+  possibleBlanks?: { rows: number[]; columns: string[] };
   /** Extra sections shown before the coefficients (INVERSE readings, LIMITS). */
   before?: HTMLElement[];
   readings?: { y: number; x: Quantity }[];
@@ -400,7 +402,7 @@ export function renderFit(target: HTMLElement, model: Model, labels: readonly st
   target.replaceChildren();
   if (opts.title) target.appendChild(el("p", opts.title, "fit-title"));
   const rowNumber = opts.rowNumber ?? ((i: number) => i + 1);
-  const list = E.findings({ fit: model.fit, labels, skipReason: (i) => model.skipReason(i, opts.xNames), rowNumber, weighting: model.weighting, where: opts.where ?? "sheet", newx: opts.newx, newy: opts.newy });
+  const list = E.findings({ fit: model.fit, labels, skipReason: (i) => model.skipReason(i, opts.xNames), rowNumber, weighting: model.weighting, where: opts.where ?? "sheet", newx: opts.newx, newy: opts.newy, possibleBlanks: opts.possibleBlanks });
   const layout = el("div", undefined, "layout");
   const main = el("div", undefined, "col main");
   const side = el("div", undefined, "col side");

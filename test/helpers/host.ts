@@ -42,10 +42,11 @@ export interface Host {
   meta: { functions: FunctionMeta[]; allowErrorForDataTypeAny?: boolean };
   fns: Map<string, (...args: unknown[]) => unknown>;
   /** Call by id with named arguments; omitted optional arguments are passed as null. */
-  call(id: string, args: Record<string, unknown>, address?: string): unknown;
+  call(id: string, args: Record<string, unknown>, address?: string, parameterAddresses?: Record<string, string>): unknown;
 }
 
-export function loadHost(): Host {
+/** Extra globals for the context (e.g. a stand-in `Excel` for the shared runtime's Excel API). */
+export function loadHost(globals: Record<string, unknown> = {}): Host {
   const code = readFileSync(resolve(DIST, "functions.js"), "utf8");
   const meta = JSON.parse(readFileSync(resolve(DIST, "functions.json"), "utf8")) as Host["meta"];
   const fns = new Map<string, (...args: unknown[]) => unknown>();
@@ -57,19 +58,19 @@ export function loadHost(): Host {
     Error: HostError,
     ErrorCode,
   };
-  const context = vm.createContext({ CustomFunctions });
+  const context = vm.createContext({ CustomFunctions, ...globals });
   vm.runInContext(code, context, { filename: "functions.js" });
   return {
     meta,
     fns,
-    call(id, args, address = "Sheet1!A1") {
+    call(id, args, address = "Sheet1!A1", parameterAddresses = {}) {
       const m = meta.functions.find((f) => f.id === id);
       if (!m) throw new Error(`no function ${id} in functions.json`);
       const f = fns.get(id);
       if (!f) throw new Error(`function ${id} was not associated`);
       const list: unknown[] = m.parameters.map((p) => (p.name in args ? args[p.name] : null));
       if (m.options?.requiresAddress || m.options?.requiresParameterAddresses)
-        list.push({ address, parameterAddresses: m.parameters.map(() => ""), functionName: id });
+        list.push({ address, parameterAddresses: m.parameters.map((p) => parameterAddresses[p.name] ?? ""), functionName: id });
       return f(...list);
     },
   };
