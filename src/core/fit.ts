@@ -440,9 +440,9 @@ export class LeastSquaresFit {
     return this.once("lackOfFit", () => lackOfFit(this));
   }
 
-  /** The added-term test of curvature (adequacy.ts): the same fit with one more term, and its t test. */
+  /** The added-term test of curvature (adequacy.ts): one more term, tested from the existing factorization. */
   addedTerm(): AddedTerm {
-    return this.once("addedTerm", () => addedTerm(this, (spec) => new LeastSquaresFit(spec, this.options)));
+    return this.once("addedTerm", () => addedTerm(this));
   }
 
   /** Condition number (2-norm) of the kept design with columns scaled to unit length, and the weakest direction. */

@@ -99,13 +99,6 @@ export const LARGE_RESIDUAL = 3;
  */
 export const LEVERAGE_FACTOR = 2;
 
-/**
- * The added-term curvature test (adequacy.ts) refits the model with one more term; it is run only
- * while rows × (parameters + 1)² ≤ ADDED_TERM_MAX_WORK (2e8, under a second here), so CHECK and
- * GOF stay fast on the largest accepted data; above it the test is #N/A with the reason.
- */
-export const ADDED_TERM_MAX_WORK = 2e8;
-
 /** Significance level at which a lack-of-fit or curvature test makes CHECK report a problem. */
 export const LACK_OF_FIT_ALPHA = 0.01;
 

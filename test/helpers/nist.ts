@@ -65,7 +65,7 @@ export function parseNist(name: string, text: string): NistDataset {
   const rows = lines.slice(d0 - 1, d1).map((l) => l.trim().split(/\s+/).map(Number));
   const intercept = params[0]?.name === "B0";
   const columns = rows[0]!.length - 1;
-  const predictors = columns > 1 ? { columns } : { polynomialDegree: params.length - (intercept ? 1 : 0), columns: 1 };
+  const predictors = columns > 1 ? { columns } : { polynomialDegree: params.length - (intercept ? 1 : 0) };
   return {
     name,
     intercept,
