@@ -79,17 +79,17 @@ export function validateSpec(spec: ModelSpec): ModelShape {
  * empty or zero column). The engine divides column c by 2^preExp[c] (exactly) before forming
  * products and powers, so nothing overflows even for entries near the largest double.
  */
-export function classifyRows(spec: ModelSpec, shape: ModelShape): { status: Uint8Array; used: Int32Array; missingCol: Int32Array; preExp: Int32Array } {
+export function classifyRows(spec: ModelSpec, shape: ModelShape, base: { missingX: Uint8Array; missingCol: Int32Array; preExp: Int32Array } | null = null): { status: Uint8Array; used: Int32Array; missingCol: Int32Array; preExp: Int32Array; missingX: Uint8Array; xMissingCol: Int32Array } {
+  if (base) return reclassify(spec, shape, base);
   const { m, k } = shape;
-  const status = new Uint8Array(m);
-  // Which x column is missing in a MissingX row (−1 elsewhere); allocated at the first such row.
-  let missingCol = new Int32Array(0);
   const { y, x, weights } = spec;
   for (let i = 0; i < m; i++) {
     const yi = y[i]!;
     if (yi === Infinity || yi === -Infinity) throw new LsqError("range", `y in row ${i + 1} is infinite`);
-    if (Number.isNaN(yi)) status[i] = RowStatus.MissingY;
   }
+  // x: each column's largest magnitude (preExp), and the first missing column of each row
+  // (whatever y holds, so another y over the same x can reuse it).
+  let xCol = new Int32Array(0); // allocated at the first missing x value
   const preExp = new Int32Array(k);
   for (let j = 0; j < k; j++) {
     const off = j * m;
@@ -101,29 +101,56 @@ export function classifyRows(spec: ModelSpec, shape: ModelShape): { status: Uint
         if (a === Infinity) throw new LsqError("range", `x in row ${i + 1}, column ${j + 1} is infinite`);
         mx = a;
       }
-      if (Number.isNaN(v) && status[i] === RowStatus.Used) {
-        status[i] = RowStatus.MissingX;
-        if (missingCol.length === 0) missingCol = new Int32Array(m).fill(-1);
-        missingCol[i] = j;
+      if (Number.isNaN(v)) {
+        if (xCol.length === 0) xCol = new Int32Array(m).fill(-1);
+        if (xCol[i]! < 0) xCol[i] = j;
       }
     }
     preExp[j] = exponentOf(mx);
   }
-  if (weights) {
+  // The rows' status from x and the weights alone (as if y were complete).
+  const missingX = new Uint8Array(m);
+  if (xCol.length > 0) for (let i = 0; i < m; i++) if (xCol[i]! >= 0) missingX[i] = RowStatus.MissingX;
+  if (weights)
     for (let i = 0; i < m; i++) {
       const w = weights[i]!;
       if (w < 0 || w === Infinity) throw new LsqError("range", `the weight in row ${i + 1} is ${w < 0 ? "negative" : "infinite"}; weights must be zero or positive`);
-      if (status[i] !== RowStatus.Used) continue;
-      if (Number.isNaN(w)) status[i] = RowStatus.MissingWeight;
-      else if (w === 0) status[i] = RowStatus.ZeroWeight;
+      if (missingX[i]) continue;
+      if (Number.isNaN(w)) missingX[i] = RowStatus.MissingWeight;
+      else if (w === 0) missingX[i] = RowStatus.ZeroWeight;
     }
-  }
+  return reclassify(spec, shape, { missingX, missingCol: xCol, preExp });
+}
+
+function usedRows(status: Uint8Array): Int32Array {
   let n = 0;
-  for (let i = 0; i < m; i++) if (status[i] === RowStatus.Used) n++;
+  for (let i = 0; i < status.length; i++) if (status[i] === RowStatus.Used) n++;
   const used = new Int32Array(n);
   n = 0;
-  for (let i = 0; i < m; i++) if (status[i] === RowStatus.Used) used[n++] = i;
-  return { status, used, missingCol, preExp };
+  for (let i = 0; i < status.length; i++) if (status[i] === RowStatus.Used) used[n++] = i;
+  return used;
+}
+
+/**
+ * The rows' status for a y, given the status from x and the weights alone (`base.missingX`, with
+ * each row's first missing x column): a missing y comes first, then x, then the weight. Another y
+ * over the same x and weights needs only this pass over y.
+ */
+function reclassify(spec: ModelSpec, shape: ModelShape, base: { missingX: Uint8Array; missingCol: Int32Array; preExp: Int32Array }): { status: Uint8Array; used: Int32Array; missingCol: Int32Array; preExp: Int32Array; missingX: Uint8Array; xMissingCol: Int32Array } {
+  const { m } = shape;
+  const status = new Uint8Array(m);
+  for (let i = 0; i < m; i++) {
+    const yi = spec.y[i]!;
+    if (yi === Infinity || yi === -Infinity) throw new LsqError("range", `y in row ${i + 1} is infinite`);
+    status[i] = Number.isNaN(yi) ? RowStatus.MissingY : base.missingX[i]!;
+  }
+  // the missing x column of rows skipped because of x (empty when no row misses x)
+  let missingCol = new Int32Array(0);
+  if (base.missingCol.length > 0) {
+    missingCol = new Int32Array(m).fill(-1);
+    for (let i = 0; i < m; i++) if (status[i] === RowStatus.MissingX) missingCol[i] = base.missingCol[i]!;
+  }
+  return { status, used: usedRows(status), missingCol, preExp: base.preExp, missingX: base.missingX, xMissingCol: base.missingCol };
 }
 
 /**

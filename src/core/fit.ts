@@ -67,6 +67,9 @@ export interface Dependency {
   readonly remainder: number;
 }
 
+/** By-products that depend only on the design and its factor, not on y (taken over by a fit that shares them). */
+const DESIGN_ONLY = ["covariance", "covarianceRefused", "condition", "leverage", "hatCorrection", "dependencies", "dependencyDeviations"];
+
 /** Refinement steps for a dependency relation (see `dependencies`). */
 const DEPENDENCY_STEPS = 3;
 
@@ -76,12 +79,34 @@ export class LeastSquaresFit {
   private readonly options: FitOptions;
   private readonly memo = new Map<string, unknown>();
 
-  constructor(spec: ModelSpec, options: FitOptions = {}) {
+  /**
+   * @param base - a fit of another y with the same x, weights, intercept and degree (the caller
+   *   compared their content): when the used rows are the same too, its design and factor are reused
+   *   and only the y-dependent work is done, and by-products that depend only on the design (the
+   *   covariance, the leverage, the conditioning, dependency relations) are taken over.
+   */
+  constructor(spec: ModelSpec, options: FitOptions = {}, base: LeastSquaresFit | null = null) {
     this.options = options;
-    this.problem = new ScaledProblem(spec);
+    this.problem = new ScaledProblem(spec, base?.problem ?? null);
     const tol = spec.tolerance === undefined || Number.isNaN(spec.tolerance) ? defaultTolerance(this.problem.n, this.problem.shape.p) : spec.tolerance;
-    this.sol = solve(this.problem, tol, options);
+    const shared = base && this.problem.sharesDesign && base.factor.tolerance === tol ? base.sol : null;
+    this.sol = solve(this.problem, tol, options, shared);
+    if (shared && this.sol.factor === shared.factor) {
+      this.sharing = true;
+      for (const key of DESIGN_ONLY) if (base!.memo.has(key)) this.memo.set(key, base!.memo.get(key));
+      const W = (globalThis as { WeakRef?: new (o: object) => { deref(): object | undefined } }).WeakRef;
+      this.owner = W ? new W(base!) : null;
+    }
   }
+
+  /** The fit whose design and factor this one shares, while it is alive (memory accounting). */
+  private owner: { deref(): object | undefined } | null = null;
+
+  /** Whether this fit reuses another fit's design and factor (several y columns against one x). */
+  get sharesFactor(): boolean {
+    return this.sharing;
+  }
+  private sharing = false;
 
   /** Compute once, keep the result (by-products asked for by several functions). */
   private once<T>(key: string, make: () => T): T {
@@ -519,11 +544,13 @@ export class LeastSquaresFit {
 
   /** Bytes this fit keeps alive: its own arrays, the factor and every cached by-product (not the caller's y, x, weights). */
   retainedBytes(): number {
-    let s = this.problem.bytes + this.sol.coefScaled.byteLength + this.sol.residScaled.byteLength;
     const qr = this.householder;
-    if (qr) s += qr.ws ? qr.ws.memory.buffer.byteLength : qr.a.byteLength + qr.tmat.byteLength;
-    else s += 8 * this.shape.p * this.shape.p * 4; // the fast path's p × p factor and Gram matrix
-    for (const v of this.memo.values()) s += bytesOf(v);
+    // Shared arrays count with the fit that made them while it lives; after that, here.
+    const sharing = this.problem.sharesDesign && this.owner?.deref() !== undefined;
+    let s = this.problem.bytesOwned(sharing) + this.sol.coefScaled.byteLength + this.sol.residScaled.byteLength;
+    if (qr && !sharing) s += qr.ws ? qr.ws.memory.buffer.byteLength : qr.a.byteLength + qr.tmat.byteLength;
+    else if (!qr) s += 8 * this.shape.p * this.shape.p * 4; // the fast path's p × p factor and Gram matrix
+    for (const [key, v] of this.memo) if (!sharing || !DESIGN_ONLY.includes(key)) s += bytesOf(v);
     return s + 2048; // objects and small fields
   }
 }

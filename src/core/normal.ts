@@ -11,8 +11,8 @@
  *  3. Accepted only when every column is kept and β·‖G⁻¹‖ = β/σ_min² ≤ ε/16: then the exact
  *     solution of G̃ x = Aᵀb differs from the least-squares solution by at most ε/16 relative.
  *     Otherwise the caller falls back to Householder QR with augmented-system refinement.
- *  4. c = Aᵀb as a double-double: from the same Gram pass, with b joined as an extra column (exact
- *     designs), else one compensated pass. Then x ← x + R⁻¹R⁻ᵀ(c − G̃x) with the residual in
+ *  4. c = Aᵀb as a double-double in one compensated pass (so another y over the same design reuses
+ *     steps 1–3 and gives the same bits as a fresh fit). Then x ← x + R⁻¹R⁻ᵀ(c − G̃x) with the residual in
  *     compensated arithmetic and x kept as a double-double, until the correction is below the
  *     attainable level.
  *  5. The residual r = b − A·x in one compensated pass. Its error is at most ‖A‖·‖δx‖ with
@@ -33,19 +33,22 @@ import type { Workspace } from "./kernels";
 import { HouseholderQR } from "./qr";
 import { EPS } from "./tolerances";
 import { axpy2, columnView, dot2, StopRule, type DDMatrix } from "./refine";
-import { exponentOf, pow2 } from "./scale";
 
-/** The leading p × p block of a q × q column-major matrix. */
-function block(a: Float64Array, q: number, p: number): Float64Array {
-  const out = new Float64Array(p * p);
-  for (let j = 0; j < p; j++) out.set(a.subarray(j * q, j * q + p), j * p);
-  return out;
+/** What the fast path keeps of a design, to solve for another right-hand side (same design, same rows). */
+export interface NormalFactor {
+  /** Householder QR of the Cholesky factor (p × p): R, the kept columns, the rank decision. */
+  readonly qr: HouseholderQR;
+  readonly gram: BoundedGram;
+  readonly sigmaMin: number;
+  /** Attainable relative accuracy of a solution, bound / σ_min². */
+  readonly level: number;
 }
 
 export interface NormalSolution {
   /** Householder QR of the Cholesky factor (p × p): R, the kept columns, the rank decision. */
   qr: HouseholderQR;
   gram: BoundedGram;
+  factor: NormalFactor;
   /** Solution (scaled), rounded to double. */
   x: Float64Array;
   /** Residual b − A x (scaled), length n. */
@@ -62,29 +65,22 @@ export function normalScratch(n: number, p: number): number {
  * Solve min ‖b − A x‖ for the exact design A (n × p, columns of length ≤ 1) and b = bHi + bLo by
  * the fast path, or return null when its guarantees do not hold (see the module comment).
  */
-export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array, bLo: Float64Array | null, tol: number, ws: Workspace | null): NormalSolution | null {
+export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array, bLo: Float64Array | null, tol: number, ws: Workspace | null, prepared: NormalFactor | null = null): NormalSolution | null {
   if (p === 0 || n < p) return null;
-  // For an exact design and right-hand side, b joins the Gram matrix as column p (scaled by a power
-  // of two to length ≤ 1), so Aᵀb comes out of the same pass; otherwise it is a separate pass.
-  const withB = !A.lo && !bLo;
-  const q = withB ? p + 1 : p;
-  const bound = splitGramBound(n, q, !!A.lo);
+  // With a factor prepared for this design (another y over the same rows), only the y-dependent
+  // work is done — the same arithmetic as for the first y, so both give the same bits.
+  const factor = prepared ?? prepare(A, n, p, tol, ws);
+  if (!factor) return null;
+  return solveWith(A, n, p, bHi, bLo, ws, factor);
+}
+
+/** Steps 1–3 (module comment): the Gram matrix, its Cholesky factor, the rank decision, the acceptance test. */
+function prepare(A: DDMatrix, n: number, p: number, tol: number, ws: Workspace | null): NormalFactor | null {
+  const bound = splitGramBound(n, p, !!A.lo);
   // Even a perfectly conditioned design cannot pass when the bound alone exceeds ε/16.
   if (bound > EPS / 16) return null;
-  let eb = 0;
-  let ext: DDMatrix = A;
-  if (withB) {
-    let bb = 0;
-    for (let i = 0; i < n; i++) bb += bHi[i]! * bHi[i]!;
-    eb = -exponentOf(Math.sqrt(bb)) - 1; // ‖b·2^eb‖ < 1 (one spare binade for rounding in bb)
-    const cols = Array.from({ length: p }, (_, j) => columnView(A, j));
-    cols.push({ data: bHi, off: 0, scale: pow2(eb) });
-    ext = { m: n, hi: A.hi, lo: null, cols };
-  }
-  const all = Int32Array.from({ length: q }, (_, j) => j);
-  const full = splitGram(ext, all, q, ws);
-  // The p × p block is G̃ = AᵀA; with b joined, column p holds Aᵀb·2^eb.
-  const gram: BoundedGram = withB ? { hi: block(full.hi, q, p), lo: block(full.lo, q, p), bound: full.bound } : full;
+  const all = Int32Array.from({ length: p }, (_, j) => j);
+  const gram = splitGram(A, all, p, ws);
 
   // Cholesky of G̃ (upper R, column-major p × p).
   const R = new Float64Array(p * p);
@@ -104,6 +100,13 @@ export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array
   const sigmaMin = conditionNumber(qr).sigmaMin;
   const level = bound / (sigmaMin * sigmaMin); // attainable relative accuracy of x
   if (!(level <= EPS / 16)) return null;
+  return { qr, gram, sigmaMin, level };
+}
+
+/** Steps 4–6 (module comment) for one right-hand side. */
+function solveWith(A: DDMatrix, n: number, p: number, bHi: Float64Array, bLo: Float64Array | null, ws: Workspace | null, factor: NormalFactor): NormalSolution | null {
+  const { qr, gram, sigmaMin, level } = factor;
+  const bound = gram.bound;
 
   // Work vectors (in the workspace when there is one, for the kernels): b's Dekker halves, later
   // those of the residual; the residual s + comp; a column slot (and its low part).
@@ -172,20 +175,11 @@ export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array
     return v;
   };
 
-  // c = Aᵀb (double-double): from the joined Gram matrix, or one compensated pass (the low parts of
-  // b, 2^-53 smaller, in working precision).
+  // c = Aᵀb (double-double): one compensated pass (the low parts of b, 2^-53 smaller, in working precision).
   const cHi = new Float64Array(p);
   const cLo = new Float64Array(p);
-  if (withB) {
-    const sc = pow2(-eb);
-    for (let j = 0; j < p; j++) {
-      cHi[j] = full.hi[p * q + j]! * sc;
-      cLo[j] = full.lo[p * q + j]! * sc;
-    }
-  } else {
-    split(bHi);
-    dots(cHi, cLo, bLo);
-  }
+  split(bHi);
+  dots(cHi, cLo, bLo);
 
   // Parameter-space refinement: x ← x + R⁻¹R⁻ᵀ(c − G̃x), x as xh + xl.
   const xh = new Float64Array(p);
@@ -254,7 +248,7 @@ export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array
   // rounding, u²·‖A‖·‖x‖).
   let res = takeResidual();
   let xErr = 1.5 * level * nx + u * u * sp * nx;
-  if (sp * xErr <= EPS * res.rn) return finish({ qr, gram, x: Float64Array.from(xh), r: res.r, steps });
+  if (sp * xErr <= EPS * res.rn) return finish({ qr, gram, factor, x: Float64Array.from(xh), r: res.r, steps });
 
   // Otherwise one correction with the true residual (corrected seminormal equations): g = Aᵀr in
   // compensated arithmetic, x ← x + R⁻¹R⁻ᵀg. It contracts x's error — at most level·‖x‖ from the
@@ -286,5 +280,5 @@ export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array
   xErr = rho * 1.5 * level * nx + (u * Math.sqrt(p) * ng + n * n * u * u * sp * rn0) / (sigmaMin * sigmaMin) + u * u * sp * nx;
   finish(null);
   if (!(rho < 0.5 && sp * xErr <= EPS * res.rn)) return null;
-  return { qr, gram, x: Float64Array.from(xh), r: res.r, steps: steps + 1 };
+  return { qr, gram, factor, x: Float64Array.from(xh), r: res.r, steps: steps + 1 };
 }

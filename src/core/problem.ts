@@ -45,11 +45,26 @@ export class ScaledProblem {
   readonly yHi: Float64Array;
   readonly yLo: Float64Array | null;
 
-  constructor(spec: ModelSpec) {
+  /** Each row's status from x and the weights alone (as if y were complete). */
+  readonly missingX: Uint8Array;
+  /** Each row's first missing x column whatever y holds (empty when no x is missing). */
+  readonly xMissingCol: Int32Array;
+  /** True when the design (and √w) are those of the base problem given to the constructor. */
+  readonly sharesDesign: boolean;
+
+  /**
+   * @param base - a problem with the same x, weights, intercept and degree (the caller has checked
+   *   their content): when its used rows are the same, its design, scales and √w are reused and only
+   *   y is scaled anew (several y columns against one x).
+   */
+  constructor(spec: ModelSpec, base: ScaledProblem | null = null) {
     this.spec = spec;
     const shape = validateSpec(spec);
     this.shape = shape;
-    const { status, used, missingCol, preExp } = classifyRows(spec, shape);
+    const reuse = base && base.shape.m === shape.m && base.shape.k === shape.k ? { missingX: base.missingX, missingCol: base.xMissingCol, preExp: base.preExp } : null;
+    const { status, used, missingCol, preExp, missingX, xMissingCol } = classifyRows(spec, shape, reuse);
+    this.missingX = missingX;
+    this.xMissingCol = xMissingCol;
     this.status = status;
     this.missingCol = missingCol;
     this.used = used;
@@ -57,19 +72,25 @@ export class ScaledProblem {
     this.n = n;
     const p = shape.p;
     this.preExp = preExp;
-    this.sw = sqrtWeights(spec.weights, used);
+    const share = !!base && base.shape.p === p && base.n === n && sameInts(base.used, used) && sameInts(base.preExp, preExp);
+    this.sharesDesign = share;
+    this.sw = share ? base!.sw : sqrtWeights(spec.weights, used);
     const sw = this.sw;
 
     // Design (weighted, pre-scaled), then exact equilibration of each column. Low parts exist
     // only for weighted or polynomial designs. An unweighted degree-1 design with every row used
     // is not copied at all: its columns are views into x (and a column of ones) times a power of
     // two; only a Householder factorization gets its own scaled copy.
-    const views = !sw && shape.degree < 2 && n === shape.m ? this.columnViews() : null;
+    const views = share ? null : !sw && shape.degree < 2 && n === shape.m ? this.columnViews() : null;
     let hi: Float64Array;
     let lo: Float64Array | null = null;
     let anyLo = false;
     const cs = new Int32Array(p);
-    if (views) {
+    if (share) {
+      hi = base!.design.hi;
+      lo = base!.design.lo;
+      cs.set(base!.cs);
+    } else if (views) {
       hi = new Float64Array(0);
       views.cols.forEach((_v, j) => (cs[j] = views.cs[j]!));
     } else {
@@ -85,7 +106,7 @@ export class ScaledProblem {
       }
     }
     this.cs = cs;
-    this.design = views ? { m: n, hi, lo: null, cols: views.cols } : { m: n, hi, lo: anyLo ? lo : null };
+    this.design = share ? base!.design : views ? { m: n, hi, lo: null, cols: views.cols } : { m: n, hi, lo: anyLo ? lo : null };
 
     // Response ỹ = y·√w·2^ys in dd: y is scaled so its largest magnitude lies in [0.5, 1), then,
     // once multiplied by √w, scaled again the same way (weights can be as large or small as any
@@ -193,13 +214,20 @@ export class ScaledProblem {
     return { skipped: status.length - this.n - zeroWeight, zeroWeight };
   }
 
-  /** Bytes held by the arrays this problem allocated (not the caller's x and y). */
-  get bytes(): number {
-    const a = [this.status, this.missingCol, this.used, this.preExp, this.cs, this.design.hi, this.design.lo, this.yHi, this.yLo, this.sw?.hi, this.sw?.lo];
+  /** Bytes held by this problem's arrays (not the caller's x and y); `shared` leaves out a design it shares. */
+  bytesOwned(shared: boolean): number {
+    const own = shared ? [] : [this.design.hi, this.design.lo, this.sw?.hi, this.sw?.lo];
+    const a = [this.status, this.missingX, this.missingCol, this.used, this.preExp, this.cs, this.yHi, this.yLo, ...own];
     let s = 0;
     for (const v of a) if (v) s += v.byteLength;
     return s;
   }
+}
+
+function sameInts(a: Int32Array, b: Int32Array): boolean {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
 }
 
 function checkFinite(hi: Float64Array, lo: Float64Array | null, off: number, n: number, j: number, spec: ModelSpec, shape: ModelShape): void {

@@ -16,7 +16,7 @@ import type { Factor } from "./qr";
 import { HouseholderQR, tmatLength } from "./qr";
 import { Workspace } from "./kernels";
 import { gramScratch, type BoundedGram } from "./gram";
-import { normalScratch, solveNormal } from "./normal";
+import { normalScratch, solveNormal, type NormalFactor } from "./normal";
 import { REFINE_SCRATCH, refineAugmented } from "./refine";
 import type { ScaledProblem } from "./problem";
 import { EXACT_FIT } from "./tolerances";
@@ -43,6 +43,8 @@ export interface Solution {
   readonly method: "normal" | "householder";
   /** The fast path's Gram matrix (reused for the covariance), or null. */
   readonly fastGram: BoundedGram | null;
+  /** The fast path's factor of the design, reusable for another y over the same rows, or null. */
+  readonly normal: NormalFactor | null;
   /** Refined scaled coefficients for the kept columns (length rank). */
   readonly coefScaled: Float64Array;
   /** Weighted scaled residuals r̃ of the used rows (all zero for an exact fit). */
@@ -73,14 +75,27 @@ export function isExactResidual(rssScaled: number, yNorm: number, coefScaled: Ar
  */
 export const KERNEL_MIN_DOUBLES = 1 << 16;
 
-export function solve(pb: ScaledProblem, tol: number, opts: FitOptions = {}): Solution {
+/**
+ * Solve the scaled problem. With `shared` — the solution of another y over the same design and the
+ * same used rows (problem.ts reuses the design then) — the factor is reused and only the
+ * y-dependent work is done: the fast path's solve for the new right-hand side (falling back to a
+ * new factorization when its guarantees do not hold for this y), or the refinement on the same
+ * Householder factor.
+ */
+export function solve(pb: ScaledProblem, tol: number, opts: FitOptions = {}, shared: Solution | null = null): Solution {
   const { n, design, yHi, yLo } = pb;
   const p = pb.shape.p;
   const kernels = opts.kernels === "always" || (opts.kernels !== false && n * p >= KERNEL_MIN_DOUBLES);
-  const fast = opts.path !== "householder" && tol >= 0 ? solveNormal(design, n, p, yHi, yLo, tol, kernels ? Workspace.scratch(normalScratch(n, p)) : null) : null;
   let sol: Omit<Solution, "exact" | "rssScaled" | "residScaled"> & { r: Float64Array };
+  if (shared?.householder) {
+    const qr = shared.householder;
+    const ref = refineAugmented(qr, design, qr.rank, 1, yHi, yLo, null);
+    sol = { factor: qr, householder: qr, method: "householder", fastGram: null, normal: null, coefScaled: ref.x, steps: ref.steps[0] ?? 0, converged: ref.converged[0] ?? true, r: ref.r };
+    return finish(sol, pb);
+  }
+  const fast = opts.path !== "householder" && tol >= 0 ? solveNormal(design, n, p, yHi, yLo, tol, kernels ? Workspace.scratch(normalScratch(n, p)) : null, shared?.normal ?? null) : null;
   if (fast) {
-    sol = { factor: fast.qr, householder: null, method: "normal", fastGram: fast.gram, coefScaled: fast.x, steps: fast.steps, converged: true, r: fast.r };
+    sol = { factor: fast.qr, householder: null, method: "normal", fastGram: fast.gram, normal: fast.factor, coefScaled: fast.x, steps: fast.steps, converged: true, r: fast.r };
   } else {
     // The factor (and the refinement's work vectors) live in a WebAssembly workspace when the
     // kernels are available (kernels.ts); everything else is the same either way.
@@ -94,8 +109,14 @@ export function solve(pb: ScaledProblem, tol: number, opts: FitOptions = {}): So
     else qrInput.set(design.hi);
     const qr = new HouseholderQR(qrInput, n, p, tol, ws);
     const ref = refineAugmented(qr, design, qr.rank, 1, yHi, yLo, null);
-    sol = { factor: qr, householder: qr, method: "householder", fastGram: null, coefScaled: ref.x, steps: ref.steps[0] ?? 0, converged: ref.converged[0] ?? true, r: ref.r };
+    sol = { factor: qr, householder: qr, method: "householder", fastGram: null, normal: null, coefScaled: ref.x, steps: ref.steps[0] ?? 0, converged: ref.converged[0] ?? true, r: ref.r };
   }
+  return finish(sol, pb);
+}
+
+/** The exact-fit decision on a solution's residual, and the solution as the fit keeps it. */
+function finish(sol: Omit<Solution, "exact" | "rssScaled" | "residScaled"> & { r: Float64Array }, pb: ScaledProblem): Solution {
+  const { n, yHi } = pb;
   // Residual: the refined residual block r̃ of the augmented system, which converges to the exact
   // residual whatever the rounding of the coefficients, or on the fast path ỹ − X̃·b̃ with b̃ a
   // double-double accurate enough for a proven bound (normal.ts).

@@ -17,14 +17,25 @@ export interface KeyParts {
   readonly bytes: readonly Uint8Array[];
   /** Scalar options (intercept, degree, orientation…). */
   readonly flags: string;
+  /** The options and a sampled hash of the inputs other than y, for finding a fit of another y over the same design. */
+  readonly design?: string;
+  readonly designHash?: number;
   /** The converted inputs themselves, for callers that compare raw input against them. */
   readonly blocks?: readonly import("./values").Block[];
+  /**
+   * The key of the entry whose arrays this one borrows and does not count (another y over the same
+   * x). The borrower is evicted with its lender, and a hit on it keeps the lender recent, so a
+   * borrowed array is always counted by an entry in the cache.
+   */
+  readonly lender?: KeyParts;
 }
 
 interface Entry<V> {
   readonly hash: number;
   readonly key: KeyParts;
   size: number;
+  /** Bytes borrowed from an evicted lender, carried by this entry from then on. */
+  carried: number;
   readonly value: V;
 }
 
@@ -54,6 +65,10 @@ export class ContentCache<V> {
       if (e.hash === hash && matches(e.key)) {
         this.hits++;
         this.entries.splice(i, 1);
+        if (e.key.lender) {
+          const j = this.entries.findIndex((l) => l.key === e.key.lender);
+          if (j >= 0) this.entries.unshift(...this.entries.splice(j, 1));
+        }
         this.entries.unshift(e);
         return e.value;
       }
@@ -62,10 +77,20 @@ export class ContentCache<V> {
     return undefined;
   }
 
+  /** The most recent entry for which `pred` holds (no hit or miss counted, the order unchanged). */
+  scan(pred: (key: KeyParts, value: V) => boolean): { key: KeyParts; value: V } | undefined {
+    for (const e of this.entries) if (pred(e.key, e.value)) return { key: e.key, value: e.value };
+    return undefined;
+  }
+
   /** Store a value under `hash` with its key (see find), evicting the least recently used. */
   insert(hash: number, key: KeyParts, value: V): void {
+    if (key.lender) {
+      const j = this.entries.findIndex((l) => l.key === key.lender);
+      if (j >= 0) this.entries.unshift(...this.entries.splice(j, 1));
+    }
     const size = keySize(key) + this.bytesOf(value);
-    this.entries.unshift({ hash, key, size, value });
+    this.entries.unshift({ hash, key, size, carried: 0, value });
     this.total += size;
     this.evict();
   }
@@ -79,7 +104,7 @@ export class ContentCache<V> {
   settle(): void {
     const e = this.entries[0];
     if (!e) return;
-    const size = keySize(e.key) + this.bytesOf(e.value);
+    const size = keySize(e.key) + e.carried + this.bytesOf(e.value);
     this.total += size - e.size;
     e.size = size;
     this.evict();
@@ -89,6 +114,19 @@ export class ContentCache<V> {
     while (this.total > this.maxBytes && this.entries.length > 1) {
       const e = this.entries.pop()!;
       this.total -= e.size;
+      for (let i = this.entries.length - 1; i >= 0; i--) {
+        const b = this.entries[i]!;
+        if (b.key.lender !== e.key) continue;
+        if (i > 0) {
+          this.entries.splice(i, 1);
+          this.total -= b.size;
+        } else {
+          // the entry in use stays; it now carries what it borrowed (over-counting its lender's y)
+          b.carried += keySize(e.key);
+          b.size += keySize(e.key);
+          this.total += keySize(e.key);
+        }
+      }
     }
   }
 

@@ -171,12 +171,15 @@ export function getModel(a: FitArgs): Model {
   const yArg = a.y as unknown[][];
   const xArg = a.x as unknown[][];
   const wArg = a.weights as unknown[][];
-  const flags = `${intercept ? 1 : 0}|${degree}|${m}|${k}|${transpose ? 1 : 0}|${yAsRow ? 1 : 0}|${hasW ? (wAsRow ? 2 : 1) : 0}|${weighting}`;
+  const design = `${intercept ? 1 : 0}|${degree}|${m}|${k}|${transpose ? 1 : 0}|${hasW ? (wAsRow ? 2 : 1) : 0}|${weighting}`;
+  const flags = `${design}|${yAsRow ? 1 : 0}`;
   let h = 0x811c9dc5;
-  for (let i = 0; i < flags.length; i++) h = Math.imul(h ^ flags.charCodeAt(i), 0x01000193);
-  h = sampleHash(yArg, h);
+  for (let i = 0; i < design.length; i++) h = Math.imul(h ^ design.charCodeAt(i), 0x01000193);
   h = sampleHash(xArg, h);
   if (hasW) h = sampleHash(wArg, h);
+  const designHash = h >>> 0;
+  h = Math.imul(h ^ (yAsRow ? 7 : 3), 0x01000193);
+  h = sampleHash(yArg, h);
   const hash = h >>> 0;
   const found = cache.find(hash, (key) => {
     if (key.flags !== flags) return false;
@@ -187,19 +190,27 @@ export function getModel(a: FitArgs): Model {
     if (found instanceof SheetError) throw found;
     return found;
   }
+  // Another y over the same x and weights (several analyte columns against one set of standards):
+  // its fit lends its converted x and weights, and — when the used rows are the same — its design
+  // and factorization (core/fit.ts), so only the y-dependent work is done.
+  const sibling = cache.scan((key, v) => !(v instanceof SheetError) && key.design === design && key.designHash === designHash && rangeEquals(xArg, key.blocks![1]!, transpose) && (!hasW || rangeEquals(wArg, key.blocks![2]!, wAsRow)));
   const y = readBlock(a.y, "y", yAsRow);
-  const x = readBlock(a.x, "x", transpose);
-  const w = hasW ? readBlock(a.weights, "weights", wAsRow) : null;
+  const x = sibling ? sibling.key.blocks![1]! : readBlock(a.x, "x", transpose);
+  const w = hasW ? (sibling ? sibling.key.blocks![2]! : readBlock(a.weights, "weights", wAsRow)) : null;
+  const base = sibling ? (sibling.value as FitModel).fit : null;
   let value: Model | SheetError;
   try {
-    const weights = w ? (weighting === "uncertainty" ? weightsFromUncertainties(w.data) : w.data) : null;
-    const fit = new LeastSquaresFit({ y: y.data, x: x.data, rows: m, cols: k, intercept, weights, degree, varianceKnown: weighting === "uncertainty" });
+    const weights = w ? (weighting === "uncertainty" ? (sibling ? (sibling.value as FitModel).fit.spec.weights! : weightsFromUncertainties(w.data)) : w.data) : null;
+    const fit = new LeastSquaresFit({ y: y.data, x: x.data, rows: m, cols: k, intercept, weights, degree, varianceKnown: weighting === "uncertainty" }, {}, base);
     value = new FitModel(fit, intercept, k, degree, m, yAsRow, weighting, y, x, w, weights !== w?.data ? weights : null);
   } catch (e) {
     value = toSheetError(e);
   }
   const blocks = w ? [y, x, w] : [y, x];
-  cache.insert(hash, { numbers: blocks.map((b) => b.data), bytes: blocks.map((b) => b.kinds), flags, blocks }, value);
+  // a sibling's x and weights are counted once, with the sibling
+  const own = sibling ? [y] : blocks;
+  const lender = sibling ? (sibling.key.lender ?? sibling.key) : undefined;
+  cache.insert(hash, { numbers: own.map((b) => b.data), bytes: own.map((b) => b.kinds), flags, design, designHash, blocks, lender }, value);
   if (value instanceof SheetError) throw value;
   return value;
 }
