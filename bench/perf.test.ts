@@ -7,7 +7,9 @@
  * (e) numpy.linalg.lstsq single-threaded on the same data (scripts/bench_numpy.py), when
  *     Debian's python3-numpy is installed;
  * (f) one cache lookup on the same ranges (the full comparison of the argument cells that every
- *     call after the first pays before it may reuse the fit).
+ *     call after the first pays before it may reuse the fit);
+ * (g) LSQ.COEF on ten y columns against the same x, one after another (cache cleared first): the
+ *     nine after the first share its factorization (several analytes against one set of standards).
  * Results go to the file named by BENCH_OUT as JSON; scripts/bench.mjs prints the table.
  */
 import { it } from "vitest";
@@ -115,6 +117,21 @@ it("benchmark one size", () => {
   clearCache();
   L.coef({ y: y2, x: x2 });
   out.lookupMs = time(reps, () => getModel({ y: y2, x: x2 })).ms;
+
+  // (g) Ten y columns against one x: y plus seeded noise, each as its own host array.
+  const tenY = Array.from({ length: 10 }, (_, c) => JSON.parse(JSON.stringify(Array.from(y, (v) => [v + (c === 0 ? 0 : 0.1 * g())]))) as number[][]);
+  const perColumn: number[][] = tenY.map(() => []);
+  out.tenYMs = time(reps, () => {
+    clearCache();
+    let last: unknown = null;
+    tenY.forEach((yc, c) => {
+      const t0 = performance.now();
+      last = L.coef({ y: yc, x: x2 });
+      perColumn[c]!.push(performance.now() - t0);
+    });
+    return last;
+  }).ms;
+  out.tenYLaterMs = median(perColumn.slice(1).map((ts) => median(ts)));
 
   const mlReps = m >= 1e6 ? 1 : Math.min(reps, 3);
   const design = new Matrix(m, k + 1);

@@ -9,7 +9,7 @@
  */
 import { beforeEach, describe, expect, it } from "vitest";
 import { LeastSquaresFit, type FitOptions } from "../src/core/fit";
-import type { ModelSpec } from "../src/core/problem";
+import type { ModelSpec } from "../src/core/design";
 import * as L from "../src/functions/lsq";
 import { cacheStats, clearCache, fitCache, getModel } from "../src/functions/model";
 import { ContentCache } from "../src/functions/cache";
@@ -100,6 +100,19 @@ describe("several y columns share one factorization, bit for bit", () => {
     }
   }
 
+  it("a y the fast path refuses (all zero) does not make another y take the slower path (found by the fuzz test)", () => {
+    // 6 × 3 design with a subnormal entry (fuzz counterexample, seed 20261201)
+    const x = Float64Array.from([0, 0, -1, 0, 0, 0, 0, 0, 0, 0, -5e-324, 0, 0, 0, 0, 0, 0, -1]);
+    const spec = { x, rows: 6, cols: 3, intercept: true };
+    const zero = new LeastSquaresFit({ ...spec, y: new Float64Array(6) });
+    const y = Float64Array.from([1, 0, 0, 0, 0, 0]);
+    const shared = new LeastSquaresFit({ ...spec, y }, {}, zero);
+    const fresh = new LeastSquaresFit({ ...spec, y });
+    expect(shared.method).toBe(fresh.method);
+    const newx = new Float64Array(3);
+    expect(same(everything(shared, newx, 1), everything(fresh, newx, 1))).toBe(true);
+  });
+
   it("a y with a missing cell uses other rows: no reuse, and the same results as a fresh fit", () => {
     const { spec, y } = designs[0]!;
     const first = new LeastSquaresFit({ ...spec, y });
@@ -109,7 +122,7 @@ describe("several y columns share one factorization, bit for bit", () => {
     const fresh = new LeastSquaresFit({ ...spec, y: yc });
     expect(shared.sharesFactor).toBe(false);
     expect(fresh.n).toBe(first.n - 1);
-    const newx = spec.x.filter((_, i) => i % spec.rows === 0);
+    const newx = spec.x.filter((_: number, i: number) => i % spec.rows === 0);
     expect(same(everything(shared, newx, 1), everything(fresh, newx, 1))).toBe(true);
   });
 });

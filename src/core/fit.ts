@@ -89,7 +89,9 @@ export class LeastSquaresFit {
     this.options = options;
     this.problem = new ScaledProblem(spec, base?.problem ?? null);
     const tol = spec.tolerance === undefined || Number.isNaN(spec.tolerance) ? defaultTolerance(this.problem.n, this.problem.shape.p) : spec.tolerance;
-    const shared = base && this.problem.sharesDesign && base.factor.tolerance === tol ? base.sol : null;
+    // (the same options too: the path and the kernels decide which factor a fit of this y alone would make)
+    const sameOptions = !!base && base.options.path === options.path && base.options.kernels === options.kernels;
+    const shared = base && sameOptions && this.problem.sharesDesign && base.factor.tolerance === tol ? base.sol : null;
     this.sol = solve(this.problem, tol, options, shared);
     if (shared && this.sol.factor === shared.factor) {
       this.sharing = true;

@@ -65,13 +65,23 @@ export function normalScratch(n: number, p: number): number {
  * Solve min ‖b − A x‖ for the exact design A (n × p, columns of length ≤ 1) and b = bHi + bLo by
  * the fast path, or return null when its guarantees do not hold (see the module comment).
  */
-export function solveNormal(A: DDMatrix, n: number, p: number, bHi: Float64Array, bLo: Float64Array | null, tol: number, ws: Workspace | null, prepared: NormalFactor | null = null): NormalSolution | null {
-  if (p === 0 || n < p) return null;
-  // With a factor prepared for this design (another y over the same rows), only the y-dependent
-  // work is done — the same arithmetic as for the first y, so both give the same bits.
-  const factor = prepared ?? prepare(A, n, p, tol, ws);
-  if (!factor) return null;
-  return solveWith(A, n, p, bHi, bLo, ws, factor);
+export function solveNormal(
+  A: DDMatrix,
+  n: number,
+  p: number,
+  bHi: Float64Array,
+  bLo: Float64Array | null,
+  tol: number,
+  ws: Workspace | null,
+  prepared?: NormalFactor | null,
+): { factor: NormalFactor | null; solution: NormalSolution | null } {
+  if (p === 0 || n < p) return { factor: null, solution: null };
+  // With the factor of another y over the same rows (`prepared`; null when the design itself did
+  // not pass steps 1–3), only the y-dependent work is done — the same arithmetic as for the first
+  // y, so both give the same bits.
+  const factor = prepared === undefined ? prepare(A, n, p, tol, ws) : prepared;
+  if (!factor) return { factor: null, solution: null };
+  return { factor, solution: solveWith(A, n, p, bHi, bLo, ws, factor) };
 }
 
 /** Steps 1–3 (module comment): the Gram matrix, its Cholesky factor, the rank decision, the acceptance test. */

@@ -43,7 +43,10 @@ export interface Solution {
   readonly method: "normal" | "householder";
   /** The fast path's Gram matrix (reused for the covariance), or null. */
   readonly fastGram: BoundedGram | null;
-  /** The fast path's factor of the design, reusable for another y over the same rows, or null. */
+  /**
+   * The fast path's factor of the design, reusable for another y over the same rows (kept also when
+   * this y then needed Householder QR), or null when the design did not pass the fast path's tests.
+   */
   readonly normal: NormalFactor | null;
   /** Refined scaled coefficients for the kept columns (length rank). */
   readonly coefScaled: Float64Array;
@@ -87,29 +90,36 @@ export function solve(pb: ScaledProblem, tol: number, opts: FitOptions = {}, sha
   const p = pb.shape.p;
   const kernels = opts.kernels === "always" || (opts.kernels !== false && n * p >= KERNEL_MIN_DOUBLES);
   let sol: Omit<Solution, "exact" | "rssScaled" | "residScaled"> & { r: Float64Array };
-  if (shared?.householder) {
-    const qr = shared.householder;
-    const ref = refineAugmented(qr, design, qr.rank, 1, yHi, yLo, null);
-    sol = { factor: qr, householder: qr, method: "householder", fastGram: null, normal: null, coefScaled: ref.x, steps: ref.steps[0] ?? 0, converged: ref.converged[0] ?? true, r: ref.r };
-    return finish(sol, pb);
+  // The fast path when its guarantees hold (normal.ts), else Householder QR. Whether the design
+  // passes the fast path's tests does not depend on y, so a shared solution's factor (or its
+  // absence) decides for this y too, and only the y-dependent test is run again: the same choice,
+  // and the same bits, as a fit of this y alone.
+  let normal: NormalFactor | null = null;
+  let fast: ReturnType<typeof solveNormal>["solution"] = null;
+  if (opts.path !== "householder" && tol >= 0) {
+    const out = solveNormal(design, n, p, yHi, yLo, tol, kernels ? Workspace.scratch(normalScratch(n, p)) : null, shared ? shared.normal : undefined);
+    normal = out.factor;
+    fast = out.solution;
   }
-  const fast = opts.path !== "householder" && tol >= 0 ? solveNormal(design, n, p, yHi, yLo, tol, kernels ? Workspace.scratch(normalScratch(n, p)) : null, shared?.normal ?? null) : null;
   if (fast) {
-    sol = { factor: fast.qr, householder: null, method: "normal", fastGram: fast.gram, normal: fast.factor, coefScaled: fast.x, steps: fast.steps, converged: true, r: fast.r };
+    sol = { factor: fast.qr, householder: null, method: "normal", fastGram: fast.gram, normal, coefScaled: fast.x, steps: fast.steps, converged: true, r: fast.r };
   } else {
-    // The factor (and the refinement's work vectors) live in a WebAssembly workspace when the
-    // kernels are available (kernels.ts); everything else is the same either way.
-    const ws = kernels ? Workspace.create(n * p + tmatLength(n, p) + Math.max(REFINE_SCRATCH * n, gramScratch(p)) + 64) : null;
-    const qrInput = ws ? ws.alloc(n * p) : new Float64Array(n * p);
-    if (design.cols)
-      design.cols.forEach((v, j) => {
-        const { data, off, scale } = v;
-        for (let t = 0, o = j * n; t < n; t++) qrInput[o + t] = data[off + t]! * scale;
-      });
-    else qrInput.set(design.hi);
-    const qr = new HouseholderQR(qrInput, n, p, tol, ws);
+    let qr = shared?.householder ?? null;
+    if (!qr) {
+      // The factor (and the refinement's work vectors) live in a WebAssembly workspace when the
+      // kernels are available (kernels.ts); everything else is the same either way.
+      const ws = kernels ? Workspace.create(n * p + tmatLength(n, p) + Math.max(REFINE_SCRATCH * n, gramScratch(p)) + 64) : null;
+      const qrInput = ws ? ws.alloc(n * p) : new Float64Array(n * p);
+      if (design.cols)
+        design.cols.forEach((v, j) => {
+          const { data, off, scale } = v;
+          for (let t = 0, o = j * n; t < n; t++) qrInput[o + t] = data[off + t]! * scale;
+        });
+      else qrInput.set(design.hi);
+      qr = new HouseholderQR(qrInput, n, p, tol, ws);
+    }
     const ref = refineAugmented(qr, design, qr.rank, 1, yHi, yLo, null);
-    sol = { factor: qr, householder: qr, method: "householder", fastGram: null, normal: null, coefScaled: ref.x, steps: ref.steps[0] ?? 0, converged: ref.converged[0] ?? true, r: ref.r };
+    sol = { factor: qr, householder: qr, method: "householder", fastGram: null, normal, coefScaled: ref.x, steps: ref.steps[0] ?? 0, converged: ref.converged[0] ?? true, r: ref.r };
   }
   return finish(sol, pb);
 }
