@@ -366,18 +366,24 @@ describe.skipIf(!have)("the spreadsheet mode: calibration views, errors that loo
     await page.route(OFFICE_JS, (r) => r.fulfill({ contentType: "text/javascript", body: standin }));
     await page.goto(`${server.url}/taskpane.html`);
     await expect.poll(() => page.textContent("#mode"), { timeout: 10_000 }).toBe("connected to the workbook");
-    await page.evaluate(() => {
+    // x holds zeros, so with cell addresses the functions first ask the workbook whether those
+    // cells are empty (functions/blanks.ts) and answer with a promise; a rejected one is the error
+    // value the cell shows.
+    await page.evaluate(async () => {
       const w = window as unknown as { __fns: Record<string, (...a: unknown[]) => unknown>; __excel: { headers: Record<string, unknown> } };
       const x = [0, 0, 1, 1, 2, 2, 4, 4, 6, 6, 8, 8, 10, 10].map((v) => [v]);
       const y = [0.006, 0.002, 0.114, 0.111, 0.215, 0.219, 0.41, 0.406, 0.589, 0.594, 0.756, 0.751, 0.897, 0.902].map((v) => [v]);
       w.__excel.headers["Cal!B2:B15"] = [["dye (mg/L)"]];
       const inv = { address: "Cal!F2", parameterAddresses: ["Cal!D2:D3", "Cal!A2:A15", "Cal!B2:B15", "", "", "", "", "", "", "", ""] };
-      w.__fns.INVERSE!([[0.342], [0.688]], y, x, null, true, 2, null, null, null, true, null, inv);
-      try {
-        w.__fns.COEF!(y, x, null, null, 0, null, null, { address: "Cal!K2", parameterAddresses: ["Cal!A2:A15", "Cal!B2:B15", "", "", "", "", ""] });
-      } catch {
-        // the cell shows #VALUE!: a degree of 0 is not allowed (not recorded: it did not pass validation)
-      }
+      await w.__fns.INVERSE!([[0.342], [0.688]], y, x, null, true, 2, null, null, null, true, null, inv);
+      // the cell shows #VALUE!: a degree of 0 is not allowed (not recorded: it did not pass validation)
+      const bad = await Promise.resolve()
+        .then(() => w.__fns.COEF!(y, x, null, null, 0, null, null, { address: "Cal!K2", parameterAddresses: ["Cal!A2:A15", "Cal!B2:B15", "", "", "", "", ""] }))
+        .then(
+          () => "a result",
+          (e: unknown) => (e as { code?: string }).code ?? String(e),
+        );
+      if (bad !== "#VALUE!") throw new Error(`COEF with degree 0 gave ${bad}`);
     });
     await page.evaluate(() => (window as unknown as { __select: (a: string) => Promise<void> }).__select("Cal!F2"));
     await page.locator(".inverse table").waitFor();
