@@ -106,26 +106,9 @@ export function leverageRefined(design: DDMatrix, n: number, factor: Factor): Fl
       ss = sn;
     }
     s[t] = ss + se;
-    // G_W += w wᵀ (upper triangle), compensated
-    for (let k = 0; k < r; k++)
-      for (let l = 0; l <= k; l++) {
-        const at = k * r + l;
-        twoProd(wh[k]!, wh[l]!, tmp);
-        const g = Gh[at]!;
-        const sn = g + tmp.hi;
-        const bb = sn - g;
-        Gl[at]! += g - (sn - bb) + (tmp.hi - bb) + tmp.lo + wh[k]! * wl[l]! + wl[k]! * wh[l]!;
-        Gh[at] = sn;
-      }
+    addOuter(Gh, Gl, wh, wl, r, tmp);
   }
-  // E = G_W − I (symmetric), in double: it is of size κε and needed to ε absolute
-  const E = new Float64Array(r * r);
-  for (let k = 0; k < r; k++)
-    for (let l = 0; l <= k; l++) {
-      const v = Gh[k * r + l]! - (k === l ? 1 : 0) + Gl[k * r + l]!;
-      E[k * r + l] = v;
-      E[l * r + k] = v;
-    }
+  const E = defectFromIdentity(Gh, Gl, r);
   const K = correctionMatrix(E, r);
   for (let t = 0; t < n; t++) {
     let wKw = 0;
@@ -162,25 +145,9 @@ export function hatCorrection(design: DDMatrix, n: number, factor: Factor): Floa
       xl[k] = lo ? lo[factor.kept[k]! * n + t]! : 0;
     }
     solveRtDD(factor, xh, xl, wh, wl);
-    for (let k = 0; k < r; k++)
-      for (let l = 0; l <= k; l++) {
-        const at = k * r + l;
-        twoProd(wh[k]!, wh[l]!, tmp);
-        const g = Gh[at]!;
-        const sn = g + tmp.hi;
-        const bb = sn - g;
-        Gl[at]! += g - (sn - bb) + (tmp.hi - bb) + tmp.lo + wh[k]! * wl[l]! + wl[k]! * wh[l]!;
-        Gh[at] = sn;
-      }
+    addOuter(Gh, Gl, wh, wl, r, tmp);
   }
-  const E = new Float64Array(r * r);
-  for (let k = 0; k < r; k++)
-    for (let l = 0; l <= k; l++) {
-      const v = Gh[k * r + l]! - (k === l ? 1 : 0) + Gl[k * r + l]!;
-      E[k * r + l] = v;
-      E[l * r + k] = v;
-    }
-  return E;
+  return defectFromIdentity(Gh, Gl, r);
 }
 
 /**
@@ -308,4 +275,30 @@ function leverageKernel(design: DDMatrix, n: number, factor: Factor, h: Float64A
     h.set(hp.subarray(0, rows), i0);
   }
   return true;
+}
+
+/** G += w wᵀ on the upper triangle (column-major r × r), G and w double-double, compensated. */
+function addOuter(Gh: Float64Array, Gl: Float64Array, wh: Float64Array, wl: Float64Array, r: number, tmp: DD): void {
+  for (let k = 0; k < r; k++)
+    for (let l = 0; l <= k; l++) {
+      const at = k * r + l;
+      twoProd(wh[k]!, wh[l]!, tmp);
+      const g = Gh[at]!;
+      const sn = g + tmp.hi;
+      const bb = sn - g;
+      Gl[at]! += g - (sn - bb) + (tmp.hi - bb) + tmp.lo + wh[k]! * wl[l]! + wl[k]! * wh[l]!;
+      Gh[at] = sn;
+    }
+}
+
+/** E = G − I (symmetric, full), in double: it is of size κε and needed to ε absolute. */
+function defectFromIdentity(Gh: Float64Array, Gl: Float64Array, r: number): Float64Array {
+  const E = new Float64Array(r * r);
+  for (let k = 0; k < r; k++)
+    for (let l = 0; l <= k; l++) {
+      const v = Gh[k * r + l]! - (k === l ? 1 : 0) + Gl[k * r + l]!;
+      E[k * r + l] = v;
+      E[l * r + k] = v;
+    }
+  return E;
 }
