@@ -2,7 +2,8 @@
  * The WebAssembly kernels (src/core/kernels.wat) against their JavaScript twins, and the whole
  * fit with and without them. The per-row compensated residuals are the same arithmetic in the
  * same order, so they must agree bit for bit; sums over rows are kept in two lanes by the kernels,
- * so those agree to the accuracy of the sums themselves. The committed module must match its
+ * so those agree to the accuracy of the sums themselves; the fast path's dot2 and axpy2 are checked
+ * the same way, directly. The committed module must match its
  * source (scripts/build-wasm.mjs --check).
  */
 import { spawnSync } from "node:child_process";
@@ -10,7 +11,7 @@ import { resolve } from "node:path";
 import { describe, expect, it } from "vitest";
 import { kernelsAvailable, Workspace } from "../src/core/kernels";
 import { HouseholderQR, tmatLength } from "../src/core/qr";
-import { fusedColumnPass } from "../src/core/refine";
+import { axpy2, dot2, fusedColumnPass, type DDMatrix } from "../src/core/refine";
 import { LeastSquaresFit } from "../src/core/fit";
 import { leverage } from "../src/core/leverage";
 import { normal, rng } from "./helpers/gen";
@@ -56,6 +57,54 @@ describe("WebAssembly kernels", () => {
       let mag = 0.25;
       for (let i = 0; i < m; i++) mag += Math.abs(col[i]! * (vh[i]! + vl[i]!));
       expect(Math.abs(gWasm - gJs)).toBeLessThanOrEqual(4e-32 * m * mag + 2.3e-16 * Math.abs(gJs));
+    }
+  });
+
+  it("dot2 and axpy2 (the fast path's passes): the running sums bit for bit, their low-order parts to their own accuracy", () => {
+    // columns given as a scaled view (scale 0.5) or with low parts, v with or without a low part
+    for (const [m, withLow, withVlo] of [[1, false, false], [2, true, true], [7, false, true], [1000, true, false], [1001, false, true]] as const) {
+      const r = rng(7 * m + 1);
+      const ws = Workspace.create(10 * m + 64)!;
+      const col = ws.alloc(m);
+      const lo = ws.alloc(m);
+      const s = ws.alloc(m);
+      const comp = ws.alloc(m);
+      const vh = ws.alloc(m);
+      const vl = ws.alloc(m);
+      const vlo = ws.alloc(m);
+      const out = ws.alloc(2);
+      const raw = new Float64Array(m);
+      for (let i = 0; i < m; i++) {
+        raw[i] = normal(r) * 2 ** Math.round(normal(r) * 20);
+        col[i] = withLow ? raw[i]! : raw[i]! * 0.5;
+        lo[i] = withLow ? col[i]! * 2 ** -55 : 0;
+        s[i] = normal(r);
+        comp[i] = normal(r) * 1e-17;
+        const b = normal(r);
+        const u = 134217729 * b;
+        vh[i] = u - (u - b);
+        vl[i] = b - vh[i]!;
+        vlo[i] = withVlo ? b * 2 ** -54 : 0;
+      }
+      // the JavaScript twins read the column through the design: with low parts, or as a view
+      const A: DDMatrix = withLow ? { m, hi: Float64Array.from(col), lo: Float64Array.from(lo) } : { m, hi: new Float64Array(0), lo: null, cols: [{ data: raw, off: 0, scale: 0.5 }] };
+      const scale = 1; // the kernels get the column already scaled (solveWith copies it so)
+      const c0 = normal(r);
+      const dJs = dot2(A, 0, vh, vl, m, c0, { hi: 0, lo: 0 }, withVlo ? Float64Array.from(vlo) : null);
+      ws.k.dot2(col.byteOffset, withLow ? lo.byteOffset : 0, scale, vh.byteOffset, vl.byteOffset, m, c0, out.byteOffset, withVlo ? vlo.byteOffset : 0);
+      let mag = Math.abs(c0);
+      for (let i = 0; i < m; i++) mag += Math.abs(col[i]! * (vh[i]! + vl[i]!));
+      expect(Math.abs(out[0]! + out[1]! - (dJs.hi + dJs.lo))).toBeLessThanOrEqual(4e-32 * m * mag + 1e-31 * Math.abs(dJs.hi));
+
+      const alpha = normal(r) * 3;
+      const alphaLo = alpha * 2 ** -60;
+      const js = { s: Float64Array.from(s), comp: Float64Array.from(comp) };
+      axpy2(A, 0, alpha, alphaLo, js.s, js.comp, m);
+      ws.k.axpy2(col.byteOffset, withLow ? lo.byteOffset : 0, scale, alpha, alphaLo, s.byteOffset, comp.byteOffset, m);
+      expect(Array.from(s)).toEqual(Array.from(js.s));
+      // comp gathers the same small terms, associated in another order: a few units in its last
+      // place of the largest of them (comp itself and a·α·2^-52 bound them)
+      for (let i = 0; i < m; i++) expect(Math.abs(comp[i]! - js.comp[i]!)).toBeLessThanOrEqual(2 ** -50 * (Math.abs(js.comp[i]!) + Math.abs(col[i]! * alpha) * 2 ** -50));
     }
   });
 
