@@ -16,6 +16,7 @@ import { LeastSquaresFit } from "../src/core/fit";
 import { findings } from "../src/findings/findings";
 import { fitNist } from "./helpers/nistfit";
 import { loadNist } from "./helpers/nist";
+import { loadReference } from "./helpers/reference";
 
 const rel = (got: number, want: number): number => (want === 0 ? Math.abs(got) : Math.abs(got - want) / Math.abs(want));
 
@@ -60,19 +61,7 @@ describe("predictions use the rank decision's tolerance", () => {
   });
 });
 
-interface Problem {
-  name: string;
-  kind: string;
-  intercept: boolean;
-  rows: number;
-  cols: number;
-  degree: number;
-  x: (number | null)[][];
-  y: (number | null)[];
-  weights: number[] | null;
-  prediction: { x: number[]; value: number; seMean: number; seNew: number } | null;
-}
-const refs = JSON.parse(readFileSync(resolve(__dirname, "fixtures/reference.json"), "utf8")) as { generator: string; problems: Problem[] };
+const refs = loadReference();
 
 describe(`predictions from the refined covariance (${refs.generator}, mpmath)`, () => {
   it("the standard errors of the mean response and of a new observation, and the limits, to 12 digits on every fixture", () => {

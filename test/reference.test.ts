@@ -5,50 +5,12 @@
  * printed below. Problems: weights (some zero), rank-deficient, nearly collinear (scaled
  * condition up to 1e11), skipped rows, no intercept, weighted polynomials (degree 2–6).
  */
-import { readFileSync } from "node:fs";
-import { resolve } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { LeastSquaresFit, type FitOptions } from "../src/core/fit";
 import { fUpper, tQuantile, tTwoSided } from "../src/core/distributions";
+import { loadReference, type Problem } from "./helpers/reference";
 
-interface Problem {
-  name: string;
-  kind: string;
-  intercept: boolean;
-  rows: number;
-  cols: number;
-  degree: number;
-  x: (number | null)[][];
-  y: (number | null)[];
-  weights: number[] | null;
-  rank: number;
-  nonIdentifiable: number[];
-  coefficients: (number | null)[];
-  standardErrors: (number | null)[];
-  pValues: (number | null)[];
-  sigma: number | null;
-  rSquared: number;
-  residualDf: number;
-  fitted: (number | null)[];
-  residuals: (number | null)[];
-  leverage: (number | null)[];
-  prediction: { x: number[]; value: number; seMean: number; seNew: number } | null;
-  studentized: (number | null)[];
-  cooks: (number | null)[];
-}
-
-const ref = JSON.parse(readFileSync(resolve(__dirname, "fixtures/reference.json"), "utf8")) as {
-  generator: string;
-  seed: number;
-  numpy: string;
-  mpmath: string;
-  problems: Problem[];
-  distributions: {
-    tTwoSided: { t: number; df: number; p: number }[];
-    fUpper: { f: number; d1: number; d2: number; p: number }[];
-    tQuantile: { p: number; df: number; q: number }[];
-  };
-};
+const ref = loadReference();
 
 const SOURCE = `${ref.generator} (seed ${ref.seed}; mpmath ${ref.mpmath}, numpy ${ref.numpy})`;
 

@@ -11,7 +11,7 @@
  */
 import { Workspace } from "./kernels";
 import type { Factor, HouseholderQR } from "./qr";
-import { columnView, type DDMatrix } from "./refine";
+import { columnView, type ColumnView, type DDMatrix } from "./refine";
 import { twoProd, type DD } from "./dd";
 
 export function leverage(design: DDMatrix, n: number, factor: Factor, householder: HouseholderQR | null, kernels: boolean): Float64Array {
@@ -64,9 +64,10 @@ export function leverageRefined(design: DDMatrix, n: number, factor: Factor): Fl
   const h = new Float64Array(n);
   const views = Array.from(factor.kept.subarray(0, r), (c) => columnView(design, c));
   const lo = design.lo;
-  const Rm = new Float64Array(r * r); // R(l, k) at k·r + l
-  for (let k = 0; k < r; k++) for (let l = 0; l <= k; l++) Rm[k * r + l] = factor.r(l, k);
+  const Rm = upperOf(factor);
   const W = new Float64Array(n * r);
+  const xh = new Float64Array(r);
+  const xl = new Float64Array(r);
   const wh = new Float64Array(r);
   const wl = new Float64Array(r);
   const Gh = new Float64Array(r * r);
@@ -74,31 +75,15 @@ export function leverageRefined(design: DDMatrix, n: number, factor: Factor): Fl
   const s = new Float64Array(n);
   const tmp: DD = { hi: 0, lo: 0 };
   for (let t = 0; t < n; t++) {
-    // Rᵀ w = x̃_t in double-double: w_k = (x_k − Σ_{l<k} R(l,k)·w_l) / R(k,k)
+    // Rᵀ w = x̃_t in double-double
+    designRow(views, lo, factor.kept, n, t, xh, xl);
+    forwardDD(Rm, r, xh, xl, wh, wl, tmp);
+    // ‖w‖² compensated: q² exactly + 2·q·wl
     let ss = 0;
     let se = 0;
     for (let k = 0; k < r; k++) {
-      const v = views[k]!;
-      let acc = v.data[v.off + t]! * v.scale;
-      let err = lo ? lo[factor.kept[k]! * n + t]! : 0;
-      for (let l = 0; l < k; l++) {
-        const rl = Rm[k * r + l]!;
-        if (rl === 0) continue;
-        twoProd(rl, -wh[l]!, tmp);
-        const sn = acc + tmp.hi;
-        const bb = sn - acc;
-        err += acc - (sn - bb) + (tmp.hi - bb) + tmp.lo - rl * wl[l]!;
-        acc = sn;
-      }
-      // (acc + err) / R(k,k) as a double-double
-      const d = Rm[k * r + k]!;
-      const q = (acc + err) / d;
-      twoProd(q, d, tmp);
-      const rem = acc - tmp.hi - tmp.lo + err;
-      wh[k] = q;
-      wl[k] = rem / d;
+      const q = wh[k]!;
       W[t * r + k] = q;
-      // ‖w‖² compensated: q² exactly + 2·q·wl
       twoProd(q, q, tmp);
       const sn = ss + tmp.hi;
       const bb = sn - ss;
@@ -131,6 +116,7 @@ export function hatCorrection(design: DDMatrix, n: number, factor: Factor): Floa
   const r = factor.rank;
   const views = Array.from(factor.kept.subarray(0, r), (c) => columnView(design, c));
   const lo = design.lo;
+  const Rm = upperOf(factor);
   const wh = new Float64Array(r);
   const wl = new Float64Array(r);
   const xh = new Float64Array(r);
@@ -139,12 +125,8 @@ export function hatCorrection(design: DDMatrix, n: number, factor: Factor): Floa
   const Gl = new Float64Array(r * r);
   const tmp: DD = { hi: 0, lo: 0 };
   for (let t = 0; t < n; t++) {
-    for (let k = 0; k < r; k++) {
-      const v = views[k]!;
-      xh[k] = v.data[v.off + t]! * v.scale;
-      xl[k] = lo ? lo[factor.kept[k]! * n + t]! : 0;
-    }
-    solveRtDD(factor, xh, xl, wh, wl);
+    designRow(views, lo, factor.kept, n, t, xh, xl);
+    forwardDD(Rm, r, xh, xl, wh, wl, tmp);
     addOuter(Gh, Gl, wh, wl, r, tmp);
   }
   return defectFromIdentity(Gh, Gl, r);
@@ -182,13 +164,33 @@ export function correctionMatrix(E: Float64Array, r: number): Float64Array {
 
 /** Rᵀ w = x (x and w as double-double hi/lo vectors of length rank), forward substitution in double-double. */
 export function solveRtDD(factor: Factor, xh: Float64Array, xl: Float64Array, wh: Float64Array, wl: Float64Array): void {
+  forwardDD(upperOf(factor), factor.rank, xh, xl, wh, wl, { hi: 0, lo: 0 });
+}
+
+/** Row t of the kept design columns as a double-double (xh, xl). */
+function designRow(views: readonly ColumnView[], lo: Float64Array | null, kept: Int32Array, n: number, t: number, xh: Float64Array, xl: Float64Array): void {
+  for (let k = 0; k < xh.length; k++) {
+    const v = views[k]!;
+    xh[k] = v.data[v.off + t]! * v.scale;
+    xl[k] = lo ? lo[kept[k]! * n + t]! : 0;
+  }
+}
+
+/** The kept r × r triangle of R, dense: R(l, k) at k·r + l (for row-by-row solves). */
+function upperOf(factor: Factor): Float64Array {
   const r = factor.rank;
-  const tmp: DD = { hi: 0, lo: 0 };
+  const Rm = new Float64Array(r * r);
+  for (let k = 0; k < r; k++) for (let l = 0; l <= k; l++) Rm[k * r + l] = factor.r(l, k);
+  return Rm;
+}
+
+/** Rᵀ w = x by forward substitution in double-double: w_k = (x_k − Σ_{l<k} R(l,k)·w_l) / R(k,k). */
+function forwardDD(Rm: Float64Array, r: number, xh: Float64Array, xl: Float64Array, wh: Float64Array, wl: Float64Array, tmp: DD): void {
   for (let k = 0; k < r; k++) {
     let acc = xh[k]!;
     let err = xl[k]!;
     for (let l = 0; l < k; l++) {
-      const rl = factor.r(l, k);
+      const rl = Rm[k * r + l]!;
       if (rl === 0) continue;
       twoProd(rl, -wh[l]!, tmp);
       const sn = acc + tmp.hi;
@@ -196,7 +198,7 @@ export function solveRtDD(factor: Factor, xh: Float64Array, xl: Float64Array, wh
       err += acc - (sn - bb) + (tmp.hi - bb) + tmp.lo - rl * wl[l]!;
       acc = sn;
     }
-    const d = factor.r(k, k);
+    const d = Rm[k * r + k]!;
     const q = (acc + err) / d;
     twoProd(q, d, tmp);
     wh[k] = q;

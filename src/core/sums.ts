@@ -1,5 +1,5 @@
 /** Compensated sums used by several steps of the engine. */
-import { SPLITTER } from "./dd";
+import { SPLITTER, twoProd, type DD } from "./dd";
 
 /** Σ v² with compensated summation of exact squares. */
 export function sumSquares(v: ArrayLike<number>, off: number, n: number): number {
@@ -26,18 +26,21 @@ export function sumSquares(v: ArrayLike<number>, off: number, n: number): number
  * arithmetic (every product error-free, sums by TwoSum), so the only error left is C's own.
  */
 export function quadraticForm(C: Float64Array, r: number, z: ArrayLike<number>): number {
+  const tmp: DD = { hi: 0, lo: 0 };
   let s = 0;
   let e = 0;
   for (let j = 0; j < r; j++) {
     const zj = z[j]!;
     if (zj === 0) continue;
     for (let i = 0; i < r; i++) {
-      const a = C[j * r + i]! * zj;
       // error of the first product (C·z_j) in working precision; that of (a·z_i) exactly
-      const ea = fmaErr(C[j * r + i]!, zj, a);
+      twoProd(C[j * r + i]!, zj, tmp);
+      const a = tmp.hi;
+      const ea = tmp.lo;
       const zi = z[i]!;
-      const p = a * zi;
-      const ep = fmaErr(a, zi, p) + ea * zi;
+      twoProd(a, zi, tmp);
+      const p = tmp.hi;
+      const ep = tmp.lo + ea * zi;
       const sn = s + p;
       const bb = sn - s;
       e += s - (sn - bb) + (p - bb) + ep;
@@ -45,15 +48,4 @@ export function quadraticForm(C: Float64Array, r: number, z: ArrayLike<number>):
     }
   }
   return s + e;
-}
-
-/** The rounding error of p = fl(a·b): a·b − p exactly (Dekker). */
-function fmaErr(a: number, b: number, p: number): number {
-  let t = SPLITTER * a;
-  const ah = t - (t - a);
-  const al = a - ah;
-  t = SPLITTER * b;
-  const bh = t - (t - b);
-  const bl = b - bh;
-  return ah * bh - p + ah * bl + al * bh + al * bl;
 }
